@@ -1,0 +1,149 @@
+/**
+ * The app's shipped fonts, embedded into label PDFs: Inter 400 and 600, JetBrains Mono 400.
+ *
+ * The latin files cover English and western European text. A character they lack is drawn from
+ * the same family's latin-ext file (embedded only when a PDF needs it), and anything neither
+ * covers becomes "?", so a label never shows an empty box.
+ */
+import { readFile } from 'node:fs/promises';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+import fontkit from '@pdf-lib/fontkit';
+import type { PDFDocument, PDFFont, PDFPage } from 'pdf-lib';
+import type { Face } from './layouts';
+
+interface FaceFile {
+  readonly pkg: '@fontsource/inter' | '@fontsource/jetbrains-mono';
+  readonly file: string;
+}
+
+const FACE_FILES: Readonly<Record<Face, { latin: FaceFile; ext: FaceFile }>> = {
+  regular: {
+    latin: { pkg: '@fontsource/inter', file: 'inter-latin-400-normal.woff' },
+    ext: { pkg: '@fontsource/inter', file: 'inter-latin-ext-400-normal.woff' },
+  },
+  bold: {
+    latin: { pkg: '@fontsource/inter', file: 'inter-latin-600-normal.woff' },
+    ext: { pkg: '@fontsource/inter', file: 'inter-latin-ext-600-normal.woff' },
+  },
+  mono: {
+    latin: { pkg: '@fontsource/jetbrains-mono', file: 'jetbrains-mono-latin-400-normal.woff' },
+    ext: { pkg: '@fontsource/jetbrains-mono', file: 'jetbrains-mono-latin-ext-400-normal.woff' },
+  },
+};
+
+const FACES: readonly Face[] = ['regular', 'bold', 'mono'];
+
+interface FontData {
+  readonly bytes: Uint8Array;
+  readonly codePoints: ReadonlySet<number>;
+}
+
+type FaceData = Readonly<Record<Face, { latin: FontData; ext: FontData }>>;
+
+const require = createRequire(import.meta.url);
+let faceData: Promise<FaceData> | undefined;
+
+async function loadFont(f: FaceFile): Promise<FontData> {
+  // The packages export only CSS; their root entry resolves to index.css beside files/.
+  const root = dirname(require.resolve(f.pkg));
+  const bytes = new Uint8Array(await readFile(join(root, 'files', f.file)));
+  return { bytes, codePoints: new Set(fontkit.create(bytes).characterSet) };
+}
+
+/** Reads the font files once per process. */
+function loadFaceData(): Promise<FaceData> {
+  faceData ??= (async () => {
+    const entries = await Promise.all(
+      FACES.map(async (face) => {
+        const [latin, ext] = await Promise.all([loadFont(FACE_FILES[face].latin), loadFont(FACE_FILES[face].ext)]);
+        return [face, { latin, ext }] as const;
+      }),
+    );
+    return Object.fromEntries(entries) as Record<Face, { latin: FontData; ext: FontData }>;
+  })();
+  return faceData;
+}
+
+interface Run {
+  readonly font: PDFFont;
+  readonly text: string;
+}
+
+// Control characters have no glyph and would break a line; a space keeps words apart.
+const CONTROL = /[\u0000-\u001f\u007f-\u009f]/g;
+
+/** Removes characters that have no place on a one-line label field. */
+export function cleanText(text: string): string {
+  return text.replace(CONTROL, ' ');
+}
+
+/** The faces embedded in one PDF, with measuring and drawing that respect font coverage. */
+export class EmbeddedFaces {
+  private constructor(
+    private readonly data: FaceData,
+    private readonly latin: Readonly<Record<Face, PDFFont>>,
+    private readonly ext: Readonly<Partial<Record<Face, PDFFont>>>,
+  ) {}
+
+  /**
+   * Embeds the three faces (subset, as .woff: STACK.md) into `doc`, plus the latin-ext file of
+   * any face whose `texts` need it.
+   */
+  static async embed(doc: PDFDocument, texts: Iterable<readonly [Face, string]>): Promise<EmbeddedFaces> {
+    doc.registerFontkit(fontkit);
+    const data = await loadFaceData();
+    const needExt = new Set<Face>();
+    for (const [face, text] of texts) {
+      if (needExt.has(face)) continue;
+      const { latin, ext } = data[face];
+      for (const ch of text) {
+        const cp = ch.codePointAt(0) ?? 0;
+        if (!latin.codePoints.has(cp) && ext.codePoints.has(cp)) {
+          needExt.add(face);
+          break;
+        }
+      }
+    }
+    const latin = {} as Record<Face, PDFFont>;
+    const ext: Partial<Record<Face, PDFFont>> = {};
+    for (const face of FACES) {
+      latin[face] = await doc.embedFont(data[face].latin.bytes, { subset: true });
+      if (needExt.has(face)) ext[face] = await doc.embedFont(data[face].ext.bytes, { subset: true });
+    }
+    return new EmbeddedFaces(data, latin, ext);
+  }
+
+  private runs(text: string, face: Face): Run[] {
+    const runs: { font: PDFFont; text: string }[] = [];
+    const { latin, ext } = this.data[face];
+    const extFont = this.ext[face];
+    for (const ch of cleanText(text)) {
+      const cp = ch.codePointAt(0) ?? 0;
+      let font = this.latin[face];
+      let out = ch;
+      if (!latin.codePoints.has(cp)) {
+        if (extFont !== undefined && ext.codePoints.has(cp)) font = extFont;
+        else out = '?';
+      }
+      const last = runs[runs.length - 1];
+      if (last !== undefined && last.font === font) last.text += out;
+      else runs.push({ font, text: out });
+    }
+    return runs;
+  }
+
+  /** Width of `text` in points at `sizePt`. */
+  widthPt(text: string, face: Face, sizePt: number): number {
+    return this.runs(text, face).reduce((w, r) => w + r.font.widthOfTextAtSize(r.text, sizePt), 0);
+  }
+
+  /** Draws `text` in black with its baseline starting at (xPt, yPt). */
+  draw(page: PDFPage, text: string, face: Face, xPt: number, yPt: number, sizePt: number): void {
+    let x = xPt;
+    for (const r of this.runs(text, face)) {
+      page.drawText(r.text, { x, y: yPt, size: sizePt, font: r.font });
+      x += r.font.widthOfTextAtSize(r.text, sizePt);
+    }
+  }
+}
