@@ -1,0 +1,76 @@
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import type { Sequelize } from 'sequelize';
+import type { Config } from './config';
+import { notFound } from './errors';
+import { errorHandler } from './middleware/error-handler';
+import { apiRouter } from './routes';
+
+/** What every part of the server may need: the configuration and the database. */
+export interface AppContext {
+  config: Config;
+  sequelize: Sequelize;
+}
+
+declare module 'express-serve-static-core' {
+  interface Request {
+    ctx: AppContext;
+  }
+}
+
+/**
+ * Builds the Express app: the API under /api and, when a built client exists in `clientDir`,
+ * the single-page app with its fallback route.
+ */
+export function createApp(ctx: AppContext, opts: { clientDir?: string } = {}): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          styleSrc: ["'self'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          mediaSrc: ["'self'", 'blob:'],
+          fontSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          frameSrc: ["'self'", 'blob:'],
+          objectSrc: ["'none'"],
+          workerSrc: ["'self'", 'blob:'],
+          frameAncestors: ["'self'"],
+          upgradeInsecureRequests: null,
+        },
+      },
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+  app.use((req, _res, next) => {
+    req.ctx = ctx;
+    next();
+  });
+  app.use(express.json({ limit: '2mb' }));
+  app.use(cookieParser());
+
+  app.use('/api', apiRouter());
+  app.use('/api', (req) => {
+    throw notFound(`No API route answers ${req.method} ${req.originalUrl}.`);
+  });
+
+  const clientDir = opts.clientDir;
+  if (clientDir && existsSync(path.join(clientDir, 'index.html'))) {
+    app.use('/assets', express.static(path.join(clientDir, 'assets'), { immutable: true, maxAge: '1y' }));
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    app.get('/{*splat}', (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(path.join(clientDir, 'index.html'));
+    });
+  }
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,40 @@
+import { z } from 'zod';
+
+const postgresUrl = z
+  .string()
+  .regex(/^postgres(ql)?:\/\//, 'must be a postgres:// or postgresql:// connection string');
+
+/** Every setting Halfmark reads from the environment, checked once at start. */
+export const ConfigSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(4870),
+  DATABASE_URL: postgresUrl,
+  MIGRATION_DATABASE_URL: postgresUrl.optional(),
+  SESSION_SECRET: z.string().min(32, 'must be at least 32 characters'),
+  DATA_DIR: z.string().default('.data'),
+  PUBLIC_URL: z.string().url().optional(),
+  /** How far a device's clock may be from the server's before an event is refused. */
+  MAX_CLOCK_SKEW_HOURS: z.coerce.number().positive().default(24),
+  DB_POOL_MAX: z.coerce.number().int().min(1).max(200).default(10),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+});
+
+export type Config = z.infer<typeof ConfigSchema>;
+
+/** Thrown when the environment holds a bad value; the message names the variable. */
+export class ConfigError extends Error {}
+
+/** Parses the environment; a bad value stops the start with a message that names the variable. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const parsed = ConfigSchema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => {
+      const name = i.path.join('.');
+      const got = env[name] === undefined ? 'it is not set' : `got ${JSON.stringify(env[name])}`;
+      return `  ${name}: ${i.message} (${got})`;
+    });
+    throw new ConfigError(`Halfmark cannot start: bad configuration in the environment.\n${lines.join('\n')}`);
+  }
+  return parsed.data;
+}

@@ -1,0 +1,9 @@
+import { Router } from 'express';
+import { getHealth } from './handlers';
+
+/** GET /api/health: public, answers whether the database is reachable and its last migration. */
+export function healthRouter(): Router {
+  const router = Router();
+  router.get('/', getHealth);
+  return router;
+}
