@@ -28,8 +28,9 @@ describe('exact factors (NIST SP 811, Appendix B)', () => {
   });
 
   it('has 1 lbf = 4.4482216152605 N exactly, from the pound and standard gravity', () => {
-    // NIST SP 811 Appendix B tables, as read in a secondary copy: pound (avoirdupois) = 0.45359237 kg exactly; standard acceleration of gravity
-    // 9.80665 m/s² exactly; pound-force = 4.448 222 E+00 N in the table (rounded).
+    // NIST SP 811 Appendix B tables, as read in a secondary copy: pound (avoirdupois) =
+    // 0.45359237 kg exactly; standard acceleration of gravity 9.80665 m/s² exactly;
+    // pound-force = 4.448 222 E+00 N in the table (rounded).
     expect(new HalfmarkDecimal(KG_PER_POUND).mul(STANDARD_GRAVITY).toString()).toBe(N_PER_LBF);
     expect(convert('1', 'lbf', 'N').toString()).toBe('4.4482216152605');
     expect(roundHalfEven(convert('1', 'lbf', 'N'), 6)).toBe('4.448222');
@@ -37,8 +38,8 @@ describe('exact factors (NIST SP 811, Appendix B)', () => {
   });
 
   it('derives psi and ksi from lbf/in² and matches the table to its printed digits', () => {
-    // NIST SP 811 Appendix B tables, as read in a secondary copy: pound-force per square inch (psi) = 6.894 757 E+03 Pa;
-    // kip per square inch (ksi) = 6.894 757 E+06 Pa. 1 MPa = 1 N/mm².
+    // NIST SP 811 Appendix B tables, as read in a secondary copy: pound-force per square inch
+    // (psi) = 6.894 757 E+03 Pa; kip per square inch (ksi) = 6.894 757 E+06 Pa. 1 MPa = 1 N/mm².
     const psiInPa = convert('1', 'psi', 'MPa').mul(1e6);
     expect(roundHalfEven(psiInPa, 3)).toBe('6894.757');
     expect(roundHalfEven(convert('1', 'ksi', 'MPa'), 6)).toBe('6.894757');
