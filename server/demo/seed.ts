@@ -18,9 +18,9 @@ export async function seedDemoLab(sequelize: Sequelize): Promise<string> {
       ('Lowmarsh Polymers','qa@lowmarsh.example', 90)`);
     await q(`INSERT INTO orders (number, customer_id, po_reference, material_spec, specimens_per_heat, geometry_key,
               test_standard, retention_days, due_date, status) VALUES
-      ('LM-26-0101', 1, 'OB-PO-7781', 'ASTM A36', 2, 'e8-plate-40', 'ASTM E8/E8M', 365, '2026-12-12', 'in_test'),
-      ('LM-26-0102', 1, 'OB-PO-7790', 'ASTM A572 Grade 50', 3, 'e8-sheet-12.5', 'ASTM E8/E8M', NULL, '2026-12-19', 'open'),
-      ('LM-26-0103', 2, 'CX-4410-B', 'ASTM B209 6061-T6', 2, 'e8-sheet-12.5', 'ASTM E8/E8M', NULL, '2026-12-15', 'in_test')`);
+      ('LM-26-0101', 1, 'OB-PO-7781', 'ASTM A36', 2, 'astm-e8-flat-plate-40', 'ASTM E8/E8M', 365, '2026-12-12', 'in_test'),
+      ('LM-26-0102', 1, 'OB-PO-7790', 'ASTM A572 Grade 50', 3, 'astm-e8-flat-sheet-12.5', 'ASTM E8/E8M', NULL, '2026-12-19', 'open'),
+      ('LM-26-0103', 2, 'CX-4410-B', 'ASTM B209 6061-T6', 2, 'astm-e8-flat-sheet-12.5', 'ASTM E8/E8M', NULL, '2026-12-15', 'in_test')`);
     await q(`INSERT INTO heats (heat_number, material, grade, producer, certificate_ref) VALUES
       ('H24-31877','Carbon steel plate','A36','Thornbury Rolling (invented)','TR-3.1-55012'),
       ('H24-31902','Carbon steel plate','A36','Thornbury Rolling (invented)','TR-3.1-55040'),

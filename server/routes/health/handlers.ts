@@ -12,6 +12,11 @@ export async function getHealth(req: Request, res: Response): Promise<void> {
     ]);
     res.json({ ok: true, db: 'up', migration });
   } catch {
-    res.status(503).json({ ok: false, db: 'down', migration: null });
+    res.status(503).json({
+      ok: false,
+      db: 'down',
+      migration: null,
+      error: { code: 'db_unavailable', message: 'The database is not answering; the lab cannot record scans until it is back.' },
+    });
   }
 }
