@@ -14,6 +14,7 @@ export async function up({ context: { sequelize } }: { context: MigrationContext
       pin_hash        text,
       failed_logins   integer NOT NULL DEFAULT 0,
       locked_until    timestamptz,
+      session_version integer NOT NULL DEFAULT 0,
       created_at      timestamptz NOT NULL DEFAULT now(),
       updated_at      timestamptz NOT NULL DEFAULT now()
     );

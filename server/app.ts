@@ -8,11 +8,19 @@ import type { Config } from './config';
 import { notFound } from './errors';
 import { errorHandler } from './middleware/error-handler';
 import { apiRouter } from './routes';
+import { authenticate } from './middleware/auth';
+import { defineModels, type Models } from './models/registry';
 
 /** What every part of the server may need: the configuration and the database. */
 export interface AppContext {
   config: Config;
   sequelize: Sequelize;
+  models: Models;
+}
+
+/** Binds the models to the connection and bundles what the handlers need. */
+export function createContext(config: Config, sequelize: Sequelize): AppContext {
+  return { config, sequelize, models: defineModels(sequelize) };
 }
 
 declare module 'express-serve-static-core' {
@@ -57,7 +65,7 @@ export function createApp(ctx: AppContext, opts: { clientDir?: string } = {}): E
   app.use(express.json({ limit: '2mb' }));
   app.use(cookieParser());
 
-  app.use('/api', apiRouter());
+  app.use('/api', authenticate, apiRouter());
   app.use('/api', (req) => {
     throw notFound(`No API route answers ${req.method} ${req.originalUrl}.`);
   });

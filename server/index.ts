@@ -1,7 +1,7 @@
 import type { Server } from 'node:http';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { createApp } from './app';
+import { createApp, createContext } from './app';
 import type { Config } from './config';
 import { createSequelize } from './db';
 
@@ -18,7 +18,7 @@ export interface RunningServer {
 export async function listen(config: Config): Promise<RunningServer> {
   const sequelize = createSequelize(config.DATABASE_URL, { poolMax: config.DB_POOL_MAX });
   await sequelize.authenticate();
-  const app = createApp({ config, sequelize }, { clientDir: path.join(root, 'dist') });
+  const app = createApp(createContext(config, sequelize), { clientDir: path.join(root, 'dist') });
   const server = await new Promise<Server>((resolve, reject) => {
     const s = app.listen(config.PORT, config.HOST, () => resolve(s));
     s.once('error', reject);

@@ -2,7 +2,7 @@ import { randomBytes } from 'node:crypto';
 import type { Express } from 'express';
 import pg from 'pg';
 import type { Sequelize } from 'sequelize';
-import { createApp, type AppContext } from '../server/app';
+import { createApp, createContext, type AppContext } from '../server/app';
 import { loadConfig, type Config } from '../server/config';
 import { createSequelize } from '../server/db';
 import { TEST_ROLES, TEST_SESSION_SECRET, TEST_TEMPLATE_DB } from './test-env';
@@ -66,7 +66,7 @@ export async function createTestContext(): Promise<TestContext> {
   });
   const sequelize = createSequelize(config.DATABASE_URL, { poolMax: 8 });
   const owner = createSequelize(testUrl(database, 'owner'), { poolMax: 2 });
-  const ctx: AppContext = { config, sequelize };
+  const ctx: AppContext = createContext(config, sequelize);
   return {
     app: createApp(ctx),
     ctx,

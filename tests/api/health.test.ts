@@ -4,7 +4,7 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createApp } from '../../server/app';
+import { createApp, createContext } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import { createSequelize } from '../../server/db';
 import { freePort, startCluster } from '../../scripts/lib/pg-cluster';
@@ -33,7 +33,7 @@ describe('GET /api/health', () => {
     try {
       await sequelize.query(`CREATE TABLE schema_migrations (name text PRIMARY KEY); INSERT INTO schema_migrations VALUES ('20260101000000-x.ts')`);
       const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: cluster.adminUrl(), SESSION_SECRET: TEST_SESSION_SECRET });
-      const app = createApp({ config, sequelize });
+      const app = createApp(createContext(config, sequelize));
       await request(app).get('/api/health').expect(200);
       cluster.stop();
       const res = await request(app).get('/api/health').expect(503);

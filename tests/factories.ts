@@ -1,0 +1,57 @@
+import { randomBytes } from 'node:crypto';
+import request from 'supertest';
+import type { Role } from '../shared/permissions';
+import { hashPassword } from '../server/auth/passwords';
+import type { User } from '../server/models/user';
+import type { TestContext } from './support';
+
+export const TEST_PASSWORD = 'correct horse battery staple';
+
+/** Creates a user of a role with a known password. */
+export async function createUser(t: TestContext, role: Role, over: Partial<{ email: string; name: string; password: string; active: boolean }> = {}): Promise<User> {
+  const tag = randomBytes(4).toString('hex');
+  return t.ctx.models.User.create({
+    email: over.email ?? `${role}-${tag}@lab.example`,
+    name: over.name ?? `Test ${role} ${tag}`,
+    role,
+    active: over.active ?? true,
+    badgeCode: null,
+    pinHash: null,
+    lockedUntil: null,
+    passwordHash: await hashPassword(over.password ?? TEST_PASSWORD),
+  });
+}
+
+/** A supertest agent signed in as one user, adding the CSRF header to every write. */
+export interface SignedInAgent {
+  user: User;
+  csrf: string;
+  get: (path: string) => request.Test;
+  post: (path: string, body?: unknown) => request.Test;
+  patch: (path: string, body?: unknown) => request.Test;
+  put: (path: string, body?: unknown) => request.Test;
+  delete: (path: string) => request.Test;
+}
+
+/** Signs a user in through POST /api/auth/login and keeps the session cookies. */
+export async function signIn(t: TestContext, user: User, password = TEST_PASSWORD): Promise<SignedInAgent> {
+  const agent = request.agent(t.app);
+  const res = await agent.post('/api/auth/login').send({ email: user.email, password }).expect(200);
+  const cookies = ([] as string[]).concat(res.headers['set-cookie'] ?? []);
+  const csrf = cookies.map((c) => /^hm_csrf=([^;]+)/.exec(c)?.[1]).find(Boolean);
+  if (!csrf) throw new Error('sign-in set no CSRF cookie');
+  return {
+    user,
+    csrf,
+    get: (path) => agent.get(path),
+    post: (path, body) => agent.post(path).set('X-CSRF-Token', csrf).send(body as object),
+    patch: (path, body) => agent.patch(path).set('X-CSRF-Token', csrf).send(body as object),
+    put: (path, body) => agent.put(path).set('X-CSRF-Token', csrf).send(body as object),
+    delete: (path) => agent.delete(path).set('X-CSRF-Token', csrf),
+  };
+}
+
+/** Creates a user of the role and signs them in. */
+export async function signedInAs(t: TestContext, role: Role): Promise<SignedInAgent> {
+  return signIn(t, await createUser(t, role));
+}
