@@ -50,10 +50,11 @@ try {
   const roles = { database: TEST_TEMPLATE_DB, ...TEST_ROLES };
   await provisionDatabase(cluster.adminUrl(), roles);
   await migrateUp(roleUrl(cluster.port, TEST_TEMPLATE_DB, roles.owner), roleUrl(cluster.port, TEST_TEMPLATE_DB, roles.app));
-  buildClientIfStale(root);
+  // Browser tests need the built client; a run filtered to other tests skips the build.
+  const filters = process.argv.slice(2).filter((a) => !a.startsWith('-'));
+  if (filters.length === 0 || filters.some((f) => f.includes('e2e'))) buildClientIfStale(root);
   mkdirSync(artifacts, { recursive: true });
-  const report = path.join(artifacts, 'vitest.json');
-  rmSync(report, { force: true });
+  const report = path.join(tmp, 'vitest.json');
 
   const args = ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...process.argv.slice(2)];
   exitCode = await new Promise<number>((resolve) => {
