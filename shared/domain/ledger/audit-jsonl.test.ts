@@ -1,8 +1,10 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { canonicalize as referenceCanonicalize } from 'json-canonicalize';
 import { computeEventHash, GENESIS_HASH, type HashedEvent, type LedgerEvent } from './event-hash';
 import { computeSeal, type Seal } from './seal';
 import { auditEventLine, auditHeaderLine, auditSealLine, verifyAuditJsonl } from './audit-jsonl';
+import { sha256HexOfText } from './sha256';
 
 // Invented demo data: a specimen that broke and one of its halves, over two days.
 function chain(item: string, steps: [string, string, HashedEvent['payload']][]): LedgerEvent[] {
@@ -106,6 +108,18 @@ describe('audit JSONL', () => {
     });
   });
 
+  it('refuses members outside the hash in an event or a seal body', () => {
+    const text = exportText(EVENTS, seals(EVENTS));
+    expect(verifyAuditJsonl(text.replace('{"body":{"actor"', '{"body":{"note":"x","actor"'))).toMatchObject({
+      ok: false,
+      firstBreak: { line: 2, reason: 'invalid-event' },
+    });
+    expect(verifyAuditJsonl(text.replace('{"body":{"day"', '{"body":{"note":"x","day"'))).toMatchObject({
+      ok: false,
+      firstBreak: { line: 6, reason: 'invalid-seal' },
+    });
+  });
+
   it('refuses a missing header, an unreadable line and an event after the seals', () => {
     const run = seals(EVENTS);
     const text = exportText(EVENTS, run);
@@ -123,5 +137,33 @@ describe('audit JSONL', () => {
       firstBreak: { line: 8, reason: 'line-out-of-place' },
     });
     expect(verifyAuditJsonl('')).toMatchObject({ ok: false, firstBreak: { line: 1, record: 'header' } });
+  });
+});
+
+describe('docs/ledger-format.md', () => {
+  const doc = readFileSync(new URL('../../../docs/ledger-format.md', import.meta.url), 'utf8');
+  const blocks = [...doc.matchAll(/```\n([\s\S]*?)```/g)].map((match) => match[1]);
+
+  it('states the hash of each canonical text in its worked example', () => {
+    const hashed = blocks.filter((block) => !block.startsWith('{"exportedAt"'));
+    expect(hashed).toHaveLength(3);
+    for (const block of hashed) {
+      const text = block.trimEnd();
+      // The hash is written after the block, before the next one.
+      const after = doc.slice(doc.indexOf(block) + block.length);
+      const stated = /hash = `([0-9a-f]{64})`/.exec(after)?.[1];
+      expect(sha256HexOfText(text)).toBe(stated);
+      expect(doc).toContain(`(${new TextEncoder().encode(text).length} bytes`);
+    }
+  });
+
+  it('holds an example export that the verifier accepts', () => {
+    const jsonl = blocks.find((block) => block.startsWith('{"exportedAt"'));
+    expect(verifyAuditJsonl(jsonl ?? '')).toEqual({
+      ok: true,
+      eventsChecked: 2,
+      sealsChecked: 1,
+      lastSeal: { day: '2026-12-01', hash: 'ecf7a7d54b771a990106a3de541f10d348b9425fbf868a4c0982b869ae0ab6e0' },
+    });
   });
 });

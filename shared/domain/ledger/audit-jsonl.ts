@@ -1,6 +1,15 @@
 import { z } from 'zod';
 import { canonicalJson } from './canonical';
-import { CodeText, HashHex, IsoMillis, verifyChain, type ChainBreakReason, type HashedEvent, type LedgerEvent } from './event-hash';
+import {
+  CodeText,
+  HASHED_EVENT_MEMBERS,
+  HashHex,
+  IsoMillis,
+  verifyChain,
+  type ChainBreakReason,
+  type HashedEvent,
+  type LedgerEvent,
+} from './event-hash';
 import { verifySeals, type HeadDifference, type Seal, type SealBody, type SealBreakReason } from './seal';
 
 /** The name and version written in the header line of an audit export. */
@@ -22,6 +31,8 @@ export const AuditHeader = z.strictObject({
 /** The header of an audit export. */
 export type AuditHeader = z.infer<typeof AuditHeader>;
 
+const SEAL_MEMBERS: readonly string[] = ['v', 'day', 'heads', 'prevSeal'];
+
 const EventLine = z.strictObject({ record: z.literal('event'), body: z.record(z.string(), z.unknown()), hash: z.string() });
 const SealLine = z.strictObject({ record: z.literal('seal'), body: z.record(z.string(), z.unknown()), hash: z.string() });
 
@@ -32,13 +43,10 @@ export function auditHeaderLine(header: Omit<AuditHeader, 'record' | 'format' | 
 
 /** One event as an audit line: `{"body":{…hashed members…},"hash":"…","record":"event"}`, canonical JSON. */
 export function auditEventLine(event: LedgerEvent): string {
-  const { hash, ...rest } = event;
   const body: Record<string, unknown> = {};
   // Only the hashed members: a stored row may carry more (an id, a partition key).
-  for (const member of ['v', 'item', 'seq', 'type', 'actor', 'station', 'container', 'occurredAt', 'recordedAt', 'payload', 'idempotencyKey', 'corrects', 'signature', 'prevHash'] as const) {
-    body[member] = (rest as HashedEvent)[member];
-  }
-  return canonicalJson({ record: 'event', body, hash });
+  for (const member of HASHED_EVENT_MEMBERS) body[member] = event[member];
+  return canonicalJson({ record: 'event', body, hash: event.hash });
 }
 
 /** One daily seal as an audit line: `{"body":{"day",…},"hash":"…","record":"seal"}`, canonical JSON. */
@@ -107,6 +115,11 @@ export function verifyAuditJsonl(text: string): AuditReport {
       if (seals.length > 0) return fail(lineBreak(number, 'event', 'line-out-of-place', `Line ${number}: event lines must come before seal lines`));
       // The parsed line, not zod's copy: the hash must be checked over exactly what was read.
       const raw = value as { body: HashedEvent; hash: string };
+      const extra = Object.keys(raw.body).filter((key) => !(HASHED_EVENT_MEMBERS as readonly string[]).includes(key));
+      if (extra.length > 0) {
+        // A member outside the hash could be changed freely, so it may not be there at all.
+        return fail(lineBreak(number, 'event', 'invalid-event', `Line ${number}: body has members the hash does not cover: ${extra.join(', ')}`));
+      }
       const ledgerEvent: LedgerEvent = { ...raw.body, hash: raw.hash };
       if (header?.items != null && !header.items.includes(String(ledgerEvent.item))) {
         return fail(lineBreak(number, 'event', 'out-of-scope', `Line ${number}: ${String(ledgerEvent.item)} is not among the header's items`));
@@ -118,6 +131,10 @@ export function verifyAuditJsonl(text: string): AuditReport {
     const seal = SealLine.safeParse(value);
     if (seal.success) {
       const raw = value as { body: SealBody; hash: string };
+      const extra = Object.keys(raw.body).filter((key) => !SEAL_MEMBERS.includes(key));
+      if (extra.length > 0) {
+        return fail(lineBreak(number, 'seal', 'invalid-seal', `Line ${number}: seal body has members the hash does not cover: ${extra.join(', ')}`));
+      }
       seals.push({ ...raw.body, hash: raw.hash });
       sealLines.push(number);
       continue;

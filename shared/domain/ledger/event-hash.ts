@@ -82,7 +82,8 @@ export class EventFormatError extends Error {
   }
 }
 
-const HASHED_MEMBERS = Object.keys(HashedEventSchema.shape) as (keyof HashedEvent)[];
+/** The fourteen members an event hash covers. */
+export const HASHED_EVENT_MEMBERS = Object.keys(HashedEventSchema.shape) as readonly (keyof HashedEvent)[];
 
 /**
  * Picks exactly the hashed members from an event (extra members such as `hash` or a database id
@@ -92,7 +93,7 @@ const HASHED_MEMBERS = Object.keys(HashedEventSchema.shape) as (keyof HashedEven
 export function eventHashBody(event: HashedEvent): HashedEvent {
   const source = event as unknown as Record<string, unknown>;
   const picked: Record<string, unknown> = {};
-  for (const member of HASHED_MEMBERS) picked[member] = source[member];
+  for (const member of HASHED_EVENT_MEMBERS) picked[member] = source[member];
   const parsed = HashedEventSchema.safeParse(picked);
   if (!parsed.success) {
     throw new EventFormatError(

@@ -96,6 +96,19 @@ describe('sealHeads and computeSeal', () => {
     expect(computeSealHash(body)).toBe(hash);
   });
 
+  it('gives the seal hash written in docs/ledger-format.md', () => {
+    // The two-event chain of the worked example (see event-hash.test.ts) sealed on its day;
+    // the hash was also checked with sha256sum over the canonical body.
+    const head = 'e329b8e5e1c65806ab2338162b0957098fa36e1f8ae250ef45a41114088d03fb';
+    const events = [
+      { item: 'S26-00157-K', seq: 1, hash: 'd76cda63d4fd6e6e0ce88d4b9190b9fe4759dcf5b08abe1c6aba5cc3a00118dc', recordedAt: '2026-12-01T09:58:13.002Z' },
+      { item: 'S26-00157-K', seq: 2, hash: head, recordedAt: '2026-12-01T10:00:00.481Z' },
+    ];
+    const seal = computeSeal('2026-12-01', events, GENESIS_HASH);
+    expect(seal.heads).toEqual([{ item: 'S26-00157-K', seq: 2, hash: head }]);
+    expect(seal.hash).toBe('ecf7a7d54b771a990106a3de541f10d348b9425fbf868a4c0982b869ae0ab6e0');
+  });
+
   it('refuses an event with a malformed recordedAt', () => {
     expect(() => sealHeads('2026-12-01', [{ ...K[0], recordedAt: '2026-12-01 09:00' }])).toThrow(/recordedAt/);
   });
