@@ -31,6 +31,7 @@ export const AuditHeader = z.strictObject({
 /** The header of an audit export. */
 export type AuditHeader = z.infer<typeof AuditHeader>;
 
+const EVENT_MEMBERS: readonly string[] = HASHED_EVENT_MEMBERS;
 const SEAL_MEMBERS: readonly string[] = ['v', 'day', 'heads', 'prevSeal'];
 
 const EventLine = z.strictObject({ record: z.literal('event'), body: z.record(z.string(), z.unknown()), hash: z.string() });
@@ -96,33 +97,35 @@ export function verifyAuditJsonl(text: string): AuditReport {
 
   for (let index = 0; index < lines.length; index++) {
     const number = index + 1;
+    const failHere = (record: AuditBreak['record'], reason: AuditBreak['reason'], problem: string) =>
+      fail(lineBreak(number, record, reason, `Line ${number}: ${problem}`));
     let value: unknown;
     try {
       value = JSON.parse(lines[index]);
     } catch {
-      return fail(lineBreak(number, 'event', 'unreadable-line', `Line ${number} is not JSON`));
+      return failHere(index === 0 ? 'header' : 'event', 'unreadable-line', 'not JSON');
     }
     if (index === 0) {
       const parsed = AuditHeader.safeParse(value);
       if (!parsed.success) {
-        return fail(lineBreak(number, 'header', 'unreadable-line', `Line 1 is not a ${AUDIT_FORMAT} v${AUDIT_FORMAT_VERSION} header`));
+        return failHere('header', 'unreadable-line', `not a ${AUDIT_FORMAT} v${AUDIT_FORMAT_VERSION} header`);
       }
       header = parsed.data;
       continue;
     }
     const event = EventLine.safeParse(value);
     if (event.success) {
-      if (seals.length > 0) return fail(lineBreak(number, 'event', 'line-out-of-place', `Line ${number}: event lines must come before seal lines`));
+      if (seals.length > 0) return failHere('event', 'line-out-of-place', 'event lines must come before seal lines');
       // The parsed line, not zod's copy: the hash must be checked over exactly what was read.
       const raw = value as { body: HashedEvent; hash: string };
-      const extra = Object.keys(raw.body).filter((key) => !(HASHED_EVENT_MEMBERS as readonly string[]).includes(key));
+      const extra = Object.keys(raw.body).filter((key) => !EVENT_MEMBERS.includes(key));
       if (extra.length > 0) {
         // A member outside the hash could be changed freely, so it may not be there at all.
-        return fail(lineBreak(number, 'event', 'invalid-event', `Line ${number}: body has members the hash does not cover: ${extra.join(', ')}`));
+        return failHere('event', 'invalid-event', `body has members the hash does not cover: ${extra.join(', ')}`);
       }
       const ledgerEvent: LedgerEvent = { ...raw.body, hash: raw.hash };
       if (header?.items != null && !header.items.includes(String(ledgerEvent.item))) {
-        return fail(lineBreak(number, 'event', 'out-of-scope', `Line ${number}: ${String(ledgerEvent.item)} is not among the header's items`));
+        return failHere('event', 'out-of-scope', `${String(ledgerEvent.item)} is not among the header's items`);
       }
       events.push(ledgerEvent);
       eventLines.push(number);
@@ -133,13 +136,13 @@ export function verifyAuditJsonl(text: string): AuditReport {
       const raw = value as { body: SealBody; hash: string };
       const extra = Object.keys(raw.body).filter((key) => !SEAL_MEMBERS.includes(key));
       if (extra.length > 0) {
-        return fail(lineBreak(number, 'seal', 'invalid-seal', `Line ${number}: seal body has members the hash does not cover: ${extra.join(', ')}`));
+        return failHere('seal', 'invalid-seal', `seal body has members the hash does not cover: ${extra.join(', ')}`);
       }
       seals.push({ ...raw.body, hash: raw.hash });
       sealLines.push(number);
       continue;
     }
-    return fail(lineBreak(number, 'event', 'unreadable-line', `Line ${number} is neither an event nor a seal line`));
+    return failHere('event', 'unreadable-line', 'neither an event nor a seal line');
   }
   if (header === null) return fail(lineBreak(1, 'header', 'unreadable-line', 'The export is empty'));
 
@@ -150,7 +153,13 @@ export function verifyAuditJsonl(text: string): AuditReport {
       ok: false,
       eventsChecked: chain.eventsChecked,
       sealsChecked: 0,
-      firstBreak: { ...lineBreak(eventLines[b.eventIndex], 'event', b.reason, b.message), item: b.item, seq: b.seq, expected: b.expected, actual: b.actual },
+      firstBreak: {
+        ...lineBreak(eventLines[b.eventIndex], 'event', b.reason, b.message),
+        item: b.item,
+        seq: b.seq,
+        expected: b.expected,
+        actual: b.actual,
+      },
     };
   }
   const sealed = verifySeals(seals, events, {
@@ -163,7 +172,13 @@ export function verifyAuditJsonl(text: string): AuditReport {
       ok: false,
       eventsChecked: events.length,
       sealsChecked: sealed.sealsChecked,
-      firstBreak: { ...lineBreak(sealLines[b.sealIndex], 'seal', b.reason, b.message), day: b.day, expected: b.expected, actual: b.actual, items: b.items },
+      firstBreak: {
+        ...lineBreak(sealLines[b.sealIndex], 'seal', b.reason, b.message),
+        day: b.day,
+        expected: b.expected,
+        actual: b.actual,
+        items: b.items,
+      },
     };
   }
   const last = seals.at(-1);

@@ -1,6 +1,14 @@
 import { z } from 'zod';
 import { canonicalBytes } from './canonical';
-import { CodeText, compareCodeUnits, GENESIS_HASH, HashHex, IsoMillis, type ChainHead, type LedgerEvent } from './event-hash';
+import {
+  CodeText,
+  compareCodeUnits,
+  GENESIS_HASH,
+  HashHex,
+  IsoMillis,
+  type ChainHead,
+  type LedgerEvent,
+} from './event-hash';
 import { sha256Hex } from './sha256';
 
 /** Version of the seal body described in docs/ledger-format.md. */
@@ -39,6 +47,10 @@ export type Seal = SealBody & { hash: string };
 /** The members of an event a seal needs. */
 export type SealableEvent = Pick<LedgerEvent, 'item' | 'seq' | 'hash' | 'recordedAt'>;
 
+function describeIssues(error: z.ZodError): string {
+  return error.issues.map((issue) => `${issue.path.join('.')}: ${issue.message}`).join('; ');
+}
+
 /** The first instant after a UTC day: the next day at 00:00:00.000Z. Throws on an invalid day. */
 export function dayEnd(day: string): string {
   const parsed = DayText.safeParse(day);
@@ -54,7 +66,8 @@ export function nextDay(day: string): string {
 function checkedRecordedAt(event: SealableEvent): string {
   const parsed = IsoMillis.safeParse(event.recordedAt);
   if (!parsed.success) {
-    throw new RangeError(`Event ${event.item} seq ${event.seq} has an invalid recordedAt ${JSON.stringify(event.recordedAt)}`);
+    const written = JSON.stringify(event.recordedAt);
+    throw new RangeError(`Event ${event.item} seq ${event.seq} has an invalid recordedAt ${written}`);
   }
   return parsed.data;
 }
@@ -87,7 +100,7 @@ export function sealHeads(day: string, events: readonly SealableEvent[]): ChainH
 export function computeSealHash(body: SealBody): string {
   const parsed = SealBodySchema.safeParse(body);
   if (!parsed.success) {
-    throw new RangeError(`Seal body does not fit format v1: ${parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ')}`);
+    throw new RangeError(`Seal body does not fit format v1: ${describeIssues(parsed.error)}`);
   }
   return sha256Hex(canonicalBytes({ v: body.v, day: body.day, heads: body.heads, prevSeal: body.prevSeal }));
 }
@@ -162,7 +175,9 @@ function headDifferences(
     const r = recomputedMap.get(item);
     const pick = (head: ChainHead | undefined) => (head === undefined ? null : { seq: head.seq, hash: head.hash });
     if (s !== undefined && r === undefined) differences.push({ item, change: 'missing', sealed: pick(s), recomputed: null });
-    else if (s === undefined && r !== undefined) differences.push({ item, change: 'unsealed', sealed: null, recomputed: pick(r) });
+    else if (s === undefined && r !== undefined) {
+      differences.push({ item, change: 'unsealed', sealed: null, recomputed: pick(r) });
+    }
     else if (s !== undefined && r !== undefined && (s.seq !== r.seq || s.hash !== r.hash)) {
       differences.push({ item, change: 'changed', sealed: pick(s), recomputed: pick(r) });
     }
@@ -174,7 +189,8 @@ function headDifferences(
  * Checks a run of daily seals, oldest first, against the ledger events: each seal's stored hash
  * is the hash of its body, its prevSeal is the previous seal's hash, the days follow one another
  * with no gap, and its heads equal the heads recomputed from the events. Names the first seal that
- * fails and, when heads differ, every item that is missing, unsealed or changed.
+ * fails and, when heads differ, every item that is missing, unsealed or changed. Run verifyChain
+ * first: an event with a malformed recordedAt makes this throw a RangeError.
  */
 export function verifySeals(
   seals: readonly Seal[],
@@ -207,20 +223,26 @@ export function verifySeals(
 
     const body = SealBodySchema.safeParse({ v: seal.v, day: seal.day, heads: seal.heads, prevSeal: seal.prevSeal });
     if (!body.success || !HashHex.safeParse(seal.hash).success) {
-      const problem = body.success ? 'hash: must be 64 lowercase hexadecimal digits' : body.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
+      const problem = body.success ? 'hash: must be 64 lowercase hexadecimal digits' : describeIssues(body.error);
       return broken('invalid-seal', null, problem, `Seal ${index} (${day}) is not a valid v1 seal: ${problem}`);
     }
     if (prevDay !== null) {
       const expectedDay = nextDay(prevDay);
-      if (day <= prevDay) return broken('day-out-of-order', expectedDay, day, `Seal for ${day} comes after the seal for ${prevDay}`);
-      if (day !== expectedDay) return broken('day-gap', expectedDay, day, `No seal for ${expectedDay}: the next seal is for ${day}`);
+      if (day <= prevDay) {
+        return broken('day-out-of-order', expectedDay, day, `Seal for ${day} comes after the seal for ${prevDay}`);
+      }
+      if (day !== expectedDay) {
+        return broken('day-gap', expectedDay, day, `No seal for ${expectedDay}: the next seal is for ${day}`);
+      }
     }
     const recomputedHash = computeSealHash(body.data);
     if (recomputedHash !== seal.hash) {
-      return broken('seal-hash-mismatch', recomputedHash, seal.hash, `Seal for ${day}: the stored hash is not the hash of its contents`);
+      const message = `Seal for ${day}: the stored hash is not the hash of its contents`;
+      return broken('seal-hash-mismatch', recomputedHash, seal.hash, message);
     }
     if (seal.prevSeal !== prevHash) {
-      return broken('prev-seal-mismatch', prevHash, seal.prevSeal, `Seal for ${day}: prevSeal is not the previous seal's hash`);
+      const message = `Seal for ${day}: prevSeal is not the previous seal's hash`;
+      return broken('prev-seal-mismatch', prevHash, seal.prevSeal, message);
     }
 
     const end = dayEnd(day);

@@ -283,7 +283,7 @@ describe('applyEvent', () => {
     expect(held).toMatchObject({ state: 'held', heldFrom: 'binned' });
     const refused = applyEvent(held, nextEvent(held, 'retained'));
     expect(refused).toMatchObject({ ok: false, code: 'state_refused' });
-    if (!refused.ok) expect(refused.message).toMatch(/^S26-00157-K is held \(held while binned\); next may be: released,/);
+    if (!refused.ok) expect(refused.message).toMatch(/^S26-00157-K is held \(was binned\); next may be: released,/);
     const relabelled = apply(held, 'relabelled');
     expect(relabelled.state).toBe('held');
     expect(apply(relabelled, 'released')).toMatchObject({ state: 'binned', heldFrom: null });

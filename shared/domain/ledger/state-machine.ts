@@ -100,7 +100,17 @@ const t = (from: readonly ProjectionState[], to: Outcome, needsContainer = false
 });
 
 // Specimen states in which the piece is on site and free to handle.
-const SPECIMEN_ON_HAND = ['registered', 'cut', 'conditioning', 'conditioned', 'measured', 'tested', 'binned', 'retained', 'rejected'] as const;
+const SPECIMEN_ON_HAND = [
+  'registered',
+  'cut',
+  'conditioning',
+  'conditioned',
+  'measured',
+  'tested',
+  'binned',
+  'retained',
+  'rejected',
+] as const;
 const BEFORE_TEST = ['registered', 'cut', 'conditioning', 'conditioned', 'measured'] as const;
 const HALF_ON_HAND = ['tested', 'binned', 'retained'] as const;
 
@@ -312,6 +322,10 @@ const CONTAINER_SETTING: ReadonlySet<EventType> = new Set([
 ]);
 const CONTAINER_CLEARING: ReadonlySet<EventType> = new Set(['returned', 'disposed']);
 
+function chainRefused(expected: string | number, actual: string | number, message: string): ApplyRefusal {
+  return { ok: false, code: 'chain_refused', expected, actual, message };
+}
+
 function invalid(issues: { path: string; message: string }[], item: string, type: string): ApplyRefusal {
   return {
     ok: false,
@@ -331,13 +345,14 @@ function invalid(issues: { path: string; message: string }[], item: string, type
 export function applyEvent(projection: Projection, event: TransitionEvent): ApplyResult {
   const item = event.item;
   if (projection.item !== null && projection.item !== item) {
-    return { ok: false, code: 'chain_refused', expected: projection.item, actual: item, message: `Event for ${item} applied to ${projection.item}` };
+    return chainRefused(projection.item, item, `Event for ${item} applied to ${projection.item}`);
   }
-  if (event.seq !== projection.lastSeq + 1) {
-    return { ok: false, code: 'chain_refused', expected: projection.lastSeq + 1, actual: event.seq, message: `${item}: expected seq ${projection.lastSeq + 1}, got ${event.seq}` };
+  const expectedSeq = projection.lastSeq + 1;
+  if (event.seq !== expectedSeq) {
+    return chainRefused(expectedSeq, event.seq, `${item}: expected seq ${expectedSeq}, got ${event.seq}`);
   }
   if (event.prevHash !== projection.headHash) {
-    return { ok: false, code: 'chain_refused', expected: projection.headHash, actual: event.prevHash, message: `${item} seq ${event.seq}: prevHash is not the item's head hash` };
+    return chainRefused(projection.headHash, event.prevHash, `${item} seq ${event.seq}: prevHash is not the item's head hash`);
   }
   if (!isEventType(event.type)) {
     return invalid([{ path: 'type', message: `is not an event type: ${event.type}` }], item, event.type);
@@ -346,20 +361,23 @@ export function applyEvent(projection: Projection, event: TransitionEvent): Appl
   const transition = TRANSITIONS[projection.kind][type];
   if (transition === undefined || !transition.from.includes(projection.state)) {
     const allowed = allowedNext(projection.kind, projection.state);
-    const held = projection.state === 'held' && projection.heldFrom !== null ? ` (held while ${describeState(projection.heldFrom)})` : '';
+    const was = projection.heldFrom ?? projection.sentFrom;
+    const detail = was !== null ? ` (was ${describeState(was)})` : '';
     return {
       ok: false,
       code: 'state_refused',
       state: projection.state,
       allowed,
-      message: `${item} is ${describeState(projection.state)}${held}; next may be: ${allowed.join(', ')}`,
+      message: `${item} is ${describeState(projection.state)}${detail}; next may be: ${allowed.join(', ')}`,
     };
   }
 
   const issues: { path: string; message: string }[] = [];
   const payload = PAYLOAD_SCHEMAS[type].safeParse(event.payload);
   if (!payload.success) {
-    for (const issue of payload.error.issues) issues.push({ path: ['payload', ...issue.path].join('.'), message: issue.message });
+    for (const issue of payload.error.issues) {
+      issues.push({ path: ['payload', ...issue.path].join('.'), message: issue.message });
+    }
   }
   if (transition.needsContainer && event.container === null) {
     issues.push({ path: 'container', message: `is required: ${type} needs a container` });
