@@ -9,7 +9,7 @@ import { readFile } from 'node:fs/promises';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import fontkit from '@pdf-lib/fontkit';
-import type { PDFDocument, PDFFont, PDFPage } from 'pdf-lib';
+import type { PDFDocument, PDFFont } from 'pdf-lib';
 import type { Face } from './layouts';
 
 interface FaceFile {
@@ -65,6 +65,14 @@ function loadFaceData(): Promise<FaceData> {
   return faceData;
 }
 
+// OpenType shaping features fontkit applies by default. Labels need none of them (no
+// ligatures, no contextual alternates, no marks to place), and shaping every string with them
+// made a 1,000-label sheet about ten times slower. Fresh object per call: fontkit mutates it.
+const noFeatures = (): Record<string, boolean> =>
+  Object.fromEntries(
+    ['calt', 'liga', 'clig', 'rlig', 'dlig', 'kern', 'ccmp', 'locl', 'mark', 'mkmk', 'rclt', 'curs', 'rvrn'].map((f) => [f, false]),
+  );
+
 interface Run {
   readonly font: PDFFont;
   readonly text: string;
@@ -108,8 +116,8 @@ export class EmbeddedFaces {
     const latin = {} as Record<Face, PDFFont>;
     const ext: Partial<Record<Face, PDFFont>> = {};
     for (const face of FACES) {
-      latin[face] = await doc.embedFont(data[face].latin.bytes, { subset: true });
-      if (needExt.has(face)) ext[face] = await doc.embedFont(data[face].ext.bytes, { subset: true });
+      latin[face] = await doc.embedFont(data[face].latin.bytes, { subset: true, features: noFeatures() });
+      if (needExt.has(face)) ext[face] = await doc.embedFont(data[face].ext.bytes, { subset: true, features: noFeatures() });
     }
     return new EmbeddedFaces(data, latin, ext);
   }
@@ -133,17 +141,48 @@ export class EmbeddedFaces {
     return runs;
   }
 
+  private readonly unitWidths = new Map<string, number>();
+
   /** Width of `text` in points at `sizePt`. */
   widthPt(text: string, face: Face, sizePt: number): number {
-    return this.runs(text, face).reduce((w, r) => w + r.font.widthOfTextAtSize(r.text, sizePt), 0);
+    // Width is proportional to size; heats, orders and titles repeat across a sheet.
+    const key = `${face}\u0000${text}`;
+    let unit = this.unitWidths.get(key);
+    if (unit === undefined) {
+      unit = this.runs(text, face).reduce((w, r) => w + r.font.widthOfTextAtSize(r.text, 1), 0);
+      this.unitWidths.set(key, unit);
+    }
+    return unit * sizePt;
   }
 
-  /** Draws `text` in black with its baseline starting at (xPt, yPt). */
-  draw(page: PDFPage, text: string, face: Face, xPt: number, yPt: number, sizePt: number): void {
-    let x = xPt;
-    for (const r of this.runs(text, face)) {
-      page.drawText(r.text, { x, y: yPt, size: sizePt, font: r.font });
-      x += r.font.widthOfTextAtSize(r.text, sizePt);
+  private readonly encoded = new Map<string, readonly { font: PDFFont; hex: string; unitWidth: number }[]>();
+
+  /**
+   * Content-stream text that draws `text` in black with its baseline starting at (xPt, yPt).
+   * `fontKey` names a font in the page's resources. Encoded runs are cached: heats, orders and
+   * titles repeat across a sheet, and encoding (glyph lookup) is the slow part of text.
+   */
+  textContent(text: string, face: Face, xPt: number, yPt: number, sizePt: number, fontKey: (font: PDFFont) => string): string {
+    const key = `${face}\u0000${text}`;
+    let runs = this.encoded.get(key);
+    if (runs === undefined) {
+      runs = this.runs(text, face).map((r) => ({
+        font: r.font,
+        // encodeText also records the glyphs the subset must keep.
+        hex: r.font.encodeText(r.text).toString(),
+        unitWidth: r.font.widthOfTextAtSize(r.text, 1),
+      }));
+      this.encoded.set(key, runs);
     }
+    const parts: string[] = ['q 0 g BT'];
+    let x = xPt;
+    for (const r of runs) {
+      parts.push(`${fontKey(r.font)} ${num(sizePt)} Tf 1 0 0 1 ${num(x)} ${num(yPt)} Tm ${r.hex} Tj`);
+      x += r.unitWidth * sizePt;
+    }
+    parts.push('ET Q\n');
+    return parts.join('\n');
   }
 }
+
+const num = (n: number): string => String(Math.round(n * 1000) / 1000);

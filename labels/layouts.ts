@@ -201,6 +201,8 @@ export const MIN_BAR_HEIGHT_RATIO = 0.15;
 
 const GAP_MM = 1;
 const HRI_HEIGHT_RATIO = 0.1;
+/** White between the bars and the human-readable code under them. */
+const HRI_GAP_MM = 0.5;
 
 /** Largest multiple of `dot` not above `value` (with a tiny tolerance for float error). */
 function snapDown(value: number, dot: number): number {
@@ -270,11 +272,11 @@ function planLinearLabel(stock: Stock, inner: RectMm, symbol: EncodedSymbol, lab
   const minBar = Math.max(MIN_BAR_HEIGHT_MM, MIN_BAR_HEIGHT_RATIO * symbolWidth);
   const hriHeight = Math.max(2.2, inner.height * HRI_HEIGHT_RATIO);
   const barHeight = Math.max(minBar, Math.min(0.4 * inner.height, 15));
-  if (barHeight + hriHeight > inner.height) throw tooLong(symbol, stock, labelIndex);
+  if (barHeight + HRI_GAP_MM + hriHeight > inner.height) throw tooLong(symbol, stock, labelIndex);
   const hriBox: RectMm = { x: inner.x, y: inner.y + inner.height - hriHeight, width: inner.width, height: hriHeight };
   const symbolRect: RectMm = {
     x: inner.x + (inner.width - symbolWidth) / 2,
-    y: hriBox.y - barHeight,
+    y: hriBox.y - HRI_GAP_MM - barHeight,
     width: symbolWidth,
     height: barHeight,
   };

@@ -1,7 +1,7 @@
 /**
  * Label PDFs: plain label data in, a finished PDF out, or a LabelError and no PDF at all.
  */
-import { PDFDocument, type PDFPage, PrintScaling } from 'pdf-lib';
+import { type PDFFont, PDFDocument, PrintScaling } from 'pdf-lib';
 import { LabelError } from './errors';
 import { EmbeddedFaces, cleanText } from './fonts';
 import {
@@ -18,7 +18,7 @@ import {
   planLabel,
 } from './layouts';
 import { type Stock, findStock, positionsPerPage } from './stocks';
-import { type EncodedSymbol, encodeSymbol, symbolOperators } from './symbols';
+import { type EncodedSymbol, encodeSymbol, symbolContent } from './symbols';
 
 export { LabelError, type LabelErrorCode } from './errors';
 export { listStocks, type Stock } from './stocks';
@@ -212,33 +212,46 @@ async function renderChecked<K extends LabelKind>(
   };
 
   const pageHeightPt = stock.pageHeightMm * PT_PER_MM;
-  let page: PDFPage | undefined;
-  let pageIndex = -1;
-  prepared.forEach((p, i) => {
-    const rect = rects[i] as LabelRect;
-    if (page === undefined || rect.page !== pageIndex) {
-      page = doc.addPage([stock.pageWidthMm * PT_PER_MM, pageHeightPt]);
-      pageIndex = rect.page;
+  const align = symbology === 'datamatrix' ? 'left' : 'center';
+  const pageCount = (rects[rects.length - 1]?.page ?? 0) + 1;
+  for (let pageIndex = 0, i = 0; pageIndex < pageCount; pageIndex++) {
+    const page = doc.addPage([stock.pageWidthMm * PT_PER_MM, pageHeightPt]);
+    const fontKeys = new Map<PDFFont, string>();
+    const fontKey = (font: PDFFont): string => {
+      let key = fontKeys.get(font);
+      if (key === undefined) {
+        key = page.node.newFontDictionary(font.name, font.ref).toString();
+        fontKeys.set(font, key);
+      }
+      return key;
+    };
+    // A page's symbols and text are written as content-stream text in one piece: building
+    // pdf-lib operator objects for ~100,000 module rectangles per 1,000 labels is the slow way.
+    const content: string[] = [];
+    for (; i < prepared.length && (rects[i] as LabelRect).page === pageIndex; i++) {
+      const p = prepared[i] as Prepared<K>;
+      const rect = rects[i] as LabelRect;
+      const text = texts[i] as (typeof texts)[number];
+      const toX = (mm: number): number => (rect.xMm + mm) * PT_PER_MM;
+      const toY = (mm: number): number => pageHeightPt - (rect.yMm + mm) * PT_PER_MM;
+      const s = p.plan.symbol;
+      content.push(
+        symbolContent(p.symbol, {
+          xPt: toX(s.symbol.x),
+          topPt: toY(s.symbol.y),
+          moduleWidthPt: s.moduleMm * PT_PER_MM,
+          moduleHeightPt: s.moduleHeightMm * PT_PER_MM,
+        }),
+      );
+      const placed = fitLines(text.head, p.plan.headBox, measure, { maxBasePt: HEAD_MAX_BASE_PT, align });
+      if (text.hri !== undefined && p.plan.hriBox !== undefined) {
+        placed.push(...fitLines([text.hri], p.plan.hriBox, measure, { maxBasePt: HEAD_MAX_BASE_PT, align: 'center' }));
+      }
+      for (const l of placed) {
+        content.push(faces.textContent(cleanText(l.text), l.face, toX(l.xMm), toY(l.baselineMm), l.sizePt, fontKey));
+      }
     }
-    const target = page;
-    const toX = (mm: number): number => (rect.xMm + mm) * PT_PER_MM;
-    const toY = (mm: number): number => pageHeightPt - (rect.yMm + mm) * PT_PER_MM;
-    const s = p.plan.symbol;
-    target.pushOperators(
-      ...symbolOperators(p.symbol, {
-        xPt: toX(s.symbol.x),
-        topPt: toY(s.symbol.y),
-        moduleWidthPt: s.moduleMm * PT_PER_MM,
-        moduleHeightPt: s.moduleHeightMm * PT_PER_MM,
-      }),
-    );
-    const text = texts[i] as (typeof texts)[number];
-    const align = symbology === 'datamatrix' ? 'left' : 'center';
-    const placed = fitLines(text.head, p.plan.headBox, measure, { maxBasePt: HEAD_MAX_BASE_PT, align });
-    if (text.hri !== undefined && p.plan.hriBox !== undefined) {
-      placed.push(...fitLines([text.hri], p.plan.hriBox, measure, { maxBasePt: HEAD_MAX_BASE_PT, align: 'center' }));
-    }
-    for (const l of placed) faces.draw(target, cleanText(l.text), l.face, toX(l.xMm), toY(l.baselineMm), l.sizePt);
-  });
+    page.node.addContentStream(doc.context.register(doc.context.flateStream(content.join(''))));
+  }
   return doc.save();
 }

@@ -4,14 +4,6 @@
  * sheets of many labels).
  */
 import bwipjs from 'bwip-js/node';
-import {
-  type PDFOperator,
-  fill,
-  popGraphicsState,
-  pushGraphicsState,
-  rectangle,
-  setFillingGrayscaleColor,
-} from 'pdf-lib';
 import { LabelError } from './errors';
 
 /** The symbologies labels use: Data Matrix (ISO/IEC 16022) and Code 128 (ISO/IEC 15417). */
@@ -146,24 +138,22 @@ export interface SymbolPlacementPt {
   readonly moduleHeightPt: number;
 }
 
-const round3 = (n: number): number => Math.round(n * 1000) / 1000;
+// Rounded to 0.001 pt, far below any printer's dot; the shortest decimal of such a double is
+// at most three decimals, never in exponent form.
+const num = (n: number): string => String(Math.round(n * 1000) / 1000);
 
 /**
- * PDF operators that fill the symbol's dark modules in black as one path.
- * Coordinates are rounded to 0.001 pt, far below any printer's dot.
+ * PDF content-stream text that fills the symbol's dark modules in black as one path: one
+ * `re` per rectangle and a single `f`. Written as text rather than operator objects because a
+ * sheet of 1,000 symbols holds some 100,000 rectangles.
  */
-export function symbolOperators(symbol: EncodedSymbol, at: SymbolPlacementPt): PDFOperator[] {
-  const ops: PDFOperator[] = [pushGraphicsState(), setFillingGrayscaleColor(0)];
+export function symbolContent(symbol: EncodedSymbol, at: SymbolPlacementPt): string {
+  const parts: string[] = ['q 0 g'];
   for (const r of symbol.rects) {
-    ops.push(
-      rectangle(
-        round3(at.xPt + r.x * at.moduleWidthPt),
-        round3(at.topPt - (r.y + r.h) * at.moduleHeightPt),
-        round3(r.w * at.moduleWidthPt),
-        round3(r.h * at.moduleHeightPt),
-      ),
+    parts.push(
+      `${num(at.xPt + r.x * at.moduleWidthPt)} ${num(at.topPt - (r.y + r.h) * at.moduleHeightPt)} ${num(r.w * at.moduleWidthPt)} ${num(r.h * at.moduleHeightPt)} re`,
     );
   }
-  ops.push(fill(), popGraphicsState());
-  return ops;
+  parts.push('f Q\n');
+  return parts.join('\n');
 }
