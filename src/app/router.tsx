@@ -2,12 +2,20 @@ import { createBrowserRouter, RouterProvider } from 'react-router-dom';
 import { AppShell } from '../components/layout/app-shell';
 import { RouteError } from './routes/route-error';
 import { paths } from '../config/paths';
+import { requireSession } from '../features/auth/session-guard';
 
 const router = createBrowserRouter([
+  {
+    path: paths.signIn.path,
+    errorElement: <RouteError />,
+    lazy: () => import('./routes/sign-in').then((m) => ({ Component: m.SignInRoute, loader: m.loader })),
+  },
   {
     path: '/',
     element: <AppShell />,
     errorElement: <RouteError />,
+    // Every screen inside the shell needs a session; anonymous visitors go to sign-in and come back.
+    loader: requireSession,
     children: [
       { path: paths.home.path, lazy: () => import('./routes/home').then((m) => ({ Component: m.HomeRoute })) },
       { path: '*', lazy: () => import('./routes/not-found').then((m) => ({ Component: m.NotFoundRoute })) },

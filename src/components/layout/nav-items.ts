@@ -1,13 +1,23 @@
+import type { Action } from '../../../shared/permissions';
 import { paths } from '../../config/paths';
 
-/** One entry of the main navigation. */
+/** One entry of the main navigation; `requires` hides it from users whose role may not take that action. */
 export interface NavItem {
   to: string;
   label: string;
   glyph: string;
+  requires?: Action;
 }
 
-/** The main navigation; screens add themselves here. */
-export function navItems(): NavItem[] {
-  return [{ to: paths.home.path, label: paths.home.label, glyph: '◆' }];
+/** The main navigation; screens add themselves here with the action they need. */
+export const NAV_ITEMS: readonly NavItem[] = [
+  { to: paths.home.path, label: paths.home.label, glyph: '◆' },
+  { to: paths.users.path, label: paths.users.label, glyph: '☷', requires: 'users.read' },
+  { to: paths.stations.path, label: paths.stations.label, glyph: '▣', requires: 'stations.write' },
+  { to: paths.outbox.path, label: paths.outbox.label, glyph: '✉', requires: 'outbox.read' },
+];
+
+/** The navigation a user sees: only items whose action the server lists in their permissions. */
+export function navItems(permissions: readonly string[] = []): NavItem[] {
+  return NAV_ITEMS.filter((item) => !item.requires || permissions.includes(item.requires));
 }
