@@ -175,6 +175,8 @@ export interface LabelPlan {
   readonly symbol: SymbolPlan;
   /** Where the head text block goes. */
   readonly headBox: RectMm;
+  /** Largest base size for text on this label: larger labels get larger text. */
+  readonly textMaxPt: number;
   /** Where the human-readable code goes under a linear symbol. */
   readonly hriBox?: RectMm;
 }
@@ -184,8 +186,8 @@ export interface LabelPlan {
  * by a phone camera at a normal holding distance (common practice).
  */
 export const MIN_DATAMATRIX_MODULE_MM = 0.375;
-/** Largest Data Matrix module: beyond 1 mm the symbol only takes room from the text. */
-export const MAX_DATAMATRIX_MODULE_MM = 1.0;
+/** Largest Data Matrix module: beyond 1.5 mm the symbol only takes room from the text. */
+export const MAX_DATAMATRIX_MODULE_MM = 1.5;
 /**
  * Code 128 X dimension limits: 0.25 mm is the usual minimum for general scanning (common
  * practice; application standards set their own); above 0.5 mm the symbol only gets longer.
@@ -221,9 +223,13 @@ export function planLabel(kind: LabelKind, stock: Stock, symbol: EncodedSymbol, 
     width: stock.labelWidthMm - 2 * pad,
     height: stock.labelHeightMm - 2 * pad,
   };
-  return SYMBOLOGY_BY_KIND[kind] === 'datamatrix'
-    ? planMatrixLabel(stock, inner, symbol, labelIndex)
-    : planLinearLabel(stock, inner, symbol, labelIndex);
+  // About six lines of text to the label's height, between 11 pt and 20 pt.
+  const textMaxPt = Math.min(20, Math.max(11, (inner.height / MM_PER_PT) * 0.16));
+  const plan =
+    SYMBOLOGY_BY_KIND[kind] === 'datamatrix'
+      ? planMatrixLabel(stock, inner, symbol, labelIndex)
+      : planLinearLabel(stock, inner, symbol, labelIndex);
+  return { ...plan, textMaxPt };
 }
 
 function tooLong(symbol: EncodedSymbol, stock: Stock, labelIndex: number | undefined): LabelError {
@@ -235,7 +241,7 @@ function tooLong(symbol: EncodedSymbol, stock: Stock, labelIndex: number | undef
 }
 
 // Data Matrix on the left, vertically centred; text to its right.
-function planMatrixLabel(stock: Stock, inner: RectMm, symbol: EncodedSymbol, labelIndex?: number): LabelPlan {
+function planMatrixLabel(stock: Stock, inner: RectMm, symbol: EncodedSymbol, labelIndex?: number): Omit<LabelPlan, 'textMaxPt'> {
   const qz = QUIET_ZONE_MODULES.datamatrix;
   const side = Math.min(inner.height, inner.width * 0.45);
   const span = Math.max(symbol.widthModules, symbol.heightModules) + 2 * qz;
@@ -263,7 +269,7 @@ function planMatrixLabel(stock: Stock, inner: RectMm, symbol: EncodedSymbol, lab
 }
 
 // Text block on top, bars below it, the code in mono under the bars; all centred.
-function planLinearLabel(stock: Stock, inner: RectMm, symbol: EncodedSymbol, labelIndex?: number): LabelPlan {
+function planLinearLabel(stock: Stock, inner: RectMm, symbol: EncodedSymbol, labelIndex?: number): Omit<LabelPlan, 'textMaxPt'> {
   const qz = QUIET_ZONE_MODULES.code128;
   const totalModules = symbol.widthModules + 2 * qz;
   const moduleMm = Math.min(snapDown(inner.width / totalModules, stock.dotMm), snapDown(MAX_CODE128_MODULE_MM, stock.dotMm));

@@ -163,7 +163,6 @@ interface Prepared<K extends LabelKind> {
 
 /** 1 mm in points. */
 const PT_PER_MM = 1 / MM_PER_PT;
-const HEAD_MAX_BASE_PT = 11;
 
 /**
  * Renders labels of one kind on one stock as a PDF, with the app's fonts embedded and every
@@ -243,9 +242,9 @@ async function renderChecked<K extends LabelKind>(
           moduleHeightPt: s.moduleHeightMm * PT_PER_MM,
         }),
       );
-      const placed = fitLines(text.head, p.plan.headBox, measure, { maxBasePt: HEAD_MAX_BASE_PT, align });
+      const placed = fitLines(text.head, p.plan.headBox, measure, { maxBasePt: p.plan.textMaxPt, align });
       if (text.hri !== undefined && p.plan.hriBox !== undefined) {
-        placed.push(...fitLines([text.hri], p.plan.hriBox, measure, { maxBasePt: HEAD_MAX_BASE_PT, align: 'center' }));
+        placed.push(...fitLines([text.hri], p.plan.hriBox, measure, { maxBasePt: p.plan.textMaxPt, align: 'center' }));
       }
       for (const l of placed) {
         content.push(faces.textContent(cleanText(l.text), l.face, toX(l.xMm), toY(l.baselineMm), l.sizePt, fontKey));
