@@ -1,0 +1,70 @@
+import type { Transaction } from 'sequelize';
+import type { EventSignature, LedgerEvent } from '../../shared/domain/ledger/event-hash';
+import type { EventType, ItemKind, ProjectionState } from '../../shared/domain/ledger/state-machine';
+import type { Role } from '../../shared/permissions';
+import type { z } from 'zod';
+
+/**
+ * Who records an event. `req.actor` (server/middleware/auth.ts) fits as it is; internal callers
+ * (intake's cut list, disposal batches) pass the person behind the request.
+ */
+export type LedgerActor =
+  | { kind: 'user'; id: number; role: Role }
+  | { kind: 'instrument'; id: number; stationId: number; stationCode: string; eventTypes: readonly string[] };
+
+/** A stored custody event as the API shows it: the hashed body, its hash and its row id. */
+export type EventView = LedgerEvent & { id: number };
+
+/** An item's state after an event, with what may follow. */
+export interface ItemSummary {
+  code: string;
+  kind: ItemKind;
+  state: ProjectionState;
+  allowed: EventType[];
+  container: string | null;
+  station: string | null;
+}
+
+/** An event recorded now (201) or found under its idempotency key (200). */
+export interface RecordedEvent {
+  status: 200 | 201;
+  replayed: boolean;
+  event: EventView;
+  item: ItemSummary;
+  /** Codes of half A and half B when this event is a fractured `tested`. */
+  halves: string[];
+  /** Out-of-tolerance readings and other things a person should look at; empty when none. */
+  flags: string[];
+}
+
+/** Why an event was refused, in the API's error shape. */
+export interface EventError {
+  code: string;
+  message: string;
+  details?: unknown;
+}
+
+/** An event that was refused: nothing was written to the ledger; the refusal was logged. */
+export interface RefusedEvent {
+  status: 403 | 404 | 409 | 422;
+  error: EventError;
+}
+
+/** What happened to one event of a unit of work. */
+export type EventOutcome = RecordedEvent | RefusedEvent;
+
+/** Options every ledger write takes. */
+export interface RecordOptions {
+  actor: LedgerActor;
+  /** Run inside the caller's transaction (intake registering specimens); else the ledger opens its own. */
+  transaction?: Transaction;
+  /** The signature a void (or another signed event) carries, already checked and consumed. */
+  signature?: z.infer<typeof EventSignature> | null;
+  /** Let `registered` and `split_from` through: only the server's own registration paths do. */
+  allowRegistration?: boolean;
+}
+
+/** Narrows an outcome to a recorded (or replayed) event. */
+export function isRecorded(outcome: EventOutcome): outcome is RecordedEvent {
+  return outcome.status === 200 || outcome.status === 201;
+}
