@@ -1,5 +1,9 @@
 import type { Sequelize } from 'sequelize';
 import { defineUser } from './user';
+import { defineCustomer } from './customer';
+import { defineOrder } from './order';
+import { defineHeat } from './heat';
+import { defineSample } from './sample';
 
 /**
  * The models bound to one connection. Each app context gets its own set, so tests can run
@@ -8,6 +12,10 @@ import { defineUser } from './user';
 export function defineModels(sequelize: Sequelize) {
   return {
     User: defineUser(sequelize),
+    Customer: defineCustomer(sequelize),
+    Order: defineOrder(sequelize),
+    Heat: defineHeat(sequelize),
+    Sample: defineSample(sequelize),
   };
 }
 

@@ -1,11 +1,21 @@
 import { Router } from 'express';
 import { authRouter } from './auth/router';
 import { healthRouter } from './health/router';
+import { customersRouter } from './customers/router';
+import { heatsRouter } from './heats/router';
+import { ordersRouter } from './orders/router';
+import { samplesRouter } from './samples/router';
+import { specimensRouter } from './specimens/router';
 
 /** Mounts every resource router under /api. */
 export function apiRouter(): Router {
   const router = Router();
   router.use('/health', healthRouter());
   router.use('/auth', authRouter());
+  router.use('/customers', customersRouter());
+  router.use('/orders', ordersRouter());
+  router.use('/heats', heatsRouter());
+  router.use('/samples', samplesRouter());
+  router.use('/specimens', specimensRouter());
   return router;
 }
