@@ -6,6 +6,7 @@ import { heatsRouter } from './heats/router';
 import { ordersRouter } from './orders/router';
 import { samplesRouter } from './samples/router';
 import { specimensRouter } from './specimens/router';
+import { labelsRouter } from './labels/router';
 
 /** Mounts every resource router under /api. */
 export function apiRouter(): Router {
@@ -17,5 +18,6 @@ export function apiRouter(): Router {
   router.use('/heats', heatsRouter());
   router.use('/samples', samplesRouter());
   router.use('/specimens', specimensRouter());
+  router.use('/labels', labelsRouter());
   return router;
 }
