@@ -10,17 +10,20 @@ import { errorHandler } from './middleware/error-handler';
 import { apiRouter } from './routes';
 import { authenticate } from './middleware/auth';
 import { defineModels, type Models } from './models/registry';
+import { createMailer, type Mailer } from './mail/mailer';
 
 /** What every part of the server may need: the configuration and the database. */
 export interface AppContext {
   config: Config;
   sequelize: Sequelize;
   models: Models;
+  /** Outgoing mail (a loopback stand-in when SMTP_HOST is not set). */
+  mailer: Mailer;
 }
 
 /** Binds the models to the connection and bundles what the handlers need. */
 export function createContext(config: Config, sequelize: Sequelize): AppContext {
-  return { config, sequelize, models: defineModels(sequelize) };
+  return { config, sequelize, models: defineModels(sequelize), mailer: createMailer(config) };
 }
 
 declare module 'express-serve-static-core' {

@@ -17,6 +17,21 @@ export const ConfigSchema = z.object({
   /** How far a device's clock may be from the server's before an event is refused. */
   MAX_CLOCK_SKEW_HOURS: z.coerce.number().positive().default(24),
   DB_POOL_MAX: z.coerce.number().int().min(1).max(200).default(10),
+  /** Outgoing mail. Without SMTP_HOST, a stand-in SMTP server on loopback keeps every message instead. */
+  SMTP_HOST: z.string().min(1).optional(),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASS: z.string().optional(),
+  SMTP_SECURE: z.enum(['true', 'false']).default('false').transform((v) => v === 'true'),
+  SMTP_FROM: z.string().default('Halfmark <halfmark@localhost>'),
+  /** Where the stand-in SMTP server keeps messages; set by `npm start` when it runs the stand-in. */
+  SMTP_OUTBOX_DIR: z.string().optional(),
+  /**
+   * Password checks (sign-in, signatures, reset requests) allowed per client address per window;
+   * accounts also lock after wrong passwords. Unset: 30, or 1000 under NODE_ENV=test.
+   */
+  LOGIN_RATE_LIMIT_MAX: z.coerce.number().int().min(1).optional(),
+  LOGIN_RATE_LIMIT_WINDOW_SECONDS: z.coerce.number().int().min(1).default(60),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

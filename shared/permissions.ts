@@ -44,6 +44,9 @@ export const ROLE_PERMISSIONS: Record<Role, readonly Action[]> = {
     'users.read', 'users.write', 'stations.write', 'retention.write', 'disposals.write', 'results.write', 'outbox.read'],
 };
 
+/** Actions an instrument token may ever take; its event types narrow events.record further. */
+export const INSTRUMENT_ACTIONS: readonly Action[] = ['events.record', 'lab.read'];
+
 /** Whether a role may take an action. */
 export function can(role: Role, action: Action): boolean {
   return ROLE_PERMISSIONS[role].includes(action);

@@ -3,6 +3,9 @@ import request from 'supertest';
 import type { Role } from '../shared/permissions';
 import { hashPassword } from '../server/auth/passwords';
 import type { User } from '../server/models/user';
+import type { Station } from '../server/models/station';
+import type { InstrumentToken } from '../server/models/instrument-token';
+import { hashToken } from '../server/middleware/auth';
 import type { TestContext } from './support';
 
 export const TEST_PASSWORD = 'correct horse battery staple';
@@ -26,6 +29,8 @@ export async function createUser(t: TestContext, role: Role, over: Partial<{ ema
 export interface SignedInAgent {
   user: User;
   csrf: string;
+  /** The session's Cookie header, for requests sent outside the agent's cookie jar. */
+  cookie: string;
   get: (path: string) => request.Test;
   post: (path: string, body?: unknown) => request.Test;
   patch: (path: string, body?: unknown) => request.Test;
@@ -40,9 +45,11 @@ export async function signIn(t: TestContext, user: User, password = TEST_PASSWOR
   const cookies = ([] as string[]).concat(res.headers['set-cookie'] ?? []);
   const csrf = cookies.map((c) => /^hm_csrf=([^;]+)/.exec(c)?.[1]).find(Boolean);
   if (!csrf) throw new Error('sign-in set no CSRF cookie');
+  const cookie = cookies.map((c) => c.split(';')[0]).join('; ');
   return {
     user,
     csrf,
+    cookie,
     get: (path) => agent.get(path),
     post: (path, body) => agent.post(path).set('X-CSRF-Token', csrf).send(body as object),
     patch: (path, body) => agent.patch(path).set('X-CSRF-Token', csrf).send(body as object),
@@ -54,4 +61,35 @@ export async function signIn(t: TestContext, user: User, password = TEST_PASSWOR
 /** Creates a user of the role and signs them in. */
 export async function signedInAs(t: TestContext, role: Role): Promise<SignedInAgent> {
   return signIn(t, await createUser(t, role));
+}
+
+/** Creates a station with a unique code. */
+export async function createStation(t: TestContext, over: Partial<{ code: string; name: string; kind: Station['kind']; active: boolean }> = {}): Promise<Station> {
+  const tag = randomBytes(3).toString('hex').toUpperCase();
+  return t.ctx.models.Station.create({
+    code: over.code ?? `ST-${tag}`,
+    name: over.name ?? `Test station ${tag}`,
+    kind: over.kind ?? 'frame',
+    active: over.active ?? true,
+  });
+}
+
+/** Creates an instrument token (on a new station unless one is given); returns the token once, as the API would. */
+export async function createInstrumentToken(
+  t: TestContext,
+  over: Partial<{ station: Station; eventTypes: string[]; name: string }> = {},
+): Promise<{ token: string; row: InstrumentToken; station: Station }> {
+  const station = over.station ?? (await createStation(t));
+  const token = `hmi_${randomBytes(32).toString('base64url')}`;
+  const row = await t.ctx.models.InstrumentToken.create({
+    stationId: station.id,
+    name: over.name ?? 'Test instrument',
+    tokenHash: hashToken(token),
+    tokenPrefix: token.slice(0, 10),
+    eventTypes: over.eventTypes ?? ['tested'],
+    createdBy: null,
+    revokedAt: null,
+    lastUsedAt: null,
+  });
+  return { token, row, station };
 }

@@ -1,6 +1,6 @@
 import { createHash, randomBytes, timingSafeEqual } from 'node:crypto';
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
-import { can, type Action, type Role } from '../../shared/permissions';
+import { can, INSTRUMENT_ACTIONS, type Action, type Role } from '../../shared/permissions';
 import { forbidden, unauthorized, AppError } from '../errors';
 import type { User } from '../models/user';
 import { CSRF_COOKIE, SESSION_COOKIE, SESSION_TTL_SECONDS, setSessionCookies, signSession, verifySession } from '../auth/session';
@@ -16,8 +16,6 @@ declare module 'express-serve-static-core' {
   }
 }
 
-/** Actions an instrument token may ever take; its event types narrow events.record further. */
-const INSTRUMENT_ACTIONS: readonly Action[] = ['events.record', 'lab.read'];
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 /** SHA-256 of an instrument token, as stored; the token itself is shown once and never kept. */

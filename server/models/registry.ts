@@ -1,5 +1,9 @@
 import type { Sequelize } from 'sequelize';
 import { defineUser } from './user';
+import { defineStation } from './station';
+import { defineInstrumentToken } from './instrument-token';
+import { defineOneTimeToken } from './one-time-token';
+import { defineSignatureToken } from './signature-token';
 import { defineCustomer } from './customer';
 import { defineOrder } from './order';
 import { defineHeat } from './heat';
@@ -12,6 +16,10 @@ import { defineSample } from './sample';
 export function defineModels(sequelize: Sequelize) {
   return {
     User: defineUser(sequelize),
+    Station: defineStation(sequelize),
+    InstrumentToken: defineInstrumentToken(sequelize),
+    OneTimeToken: defineOneTimeToken(sequelize),
+    SignatureToken: defineSignatureToken(sequelize),
     Customer: defineCustomer(sequelize),
     Order: defineOrder(sequelize),
     Heat: defineHeat(sequelize),

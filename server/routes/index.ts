@@ -1,6 +1,9 @@
 import { Router } from 'express';
 import { authRouter } from './auth/router';
 import { healthRouter } from './health/router';
+import { usersRouter } from './users/router';
+import { stationsRouter } from './stations/router';
+import { outboxRouter } from './outbox/router';
 import { customersRouter } from './customers/router';
 import { heatsRouter } from './heats/router';
 import { ordersRouter } from './orders/router';
@@ -13,6 +16,9 @@ export function apiRouter(): Router {
   const router = Router();
   router.use('/health', healthRouter());
   router.use('/auth', authRouter());
+  router.use('/users', usersRouter());
+  router.use('/stations', stationsRouter());
+  router.use('/outbox', outboxRouter());
   router.use('/customers', customersRouter());
   router.use('/orders', ordersRouter());
   router.use('/heats', heatsRouter());

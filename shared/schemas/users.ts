@@ -71,3 +71,6 @@ export const ChangePasswordSchema = z.object({
   newPassword: NewPasswordSchema,
 });
 export type ChangePasswordBody = z.infer<typeof ChangePasswordSchema>;
+
+/** `:id` in a route path: a positive whole number. */
+export const IdParamsSchema = z.object({ id: z.coerce.number().int().positive('The id in the address must be a positive whole number.') });
