@@ -250,57 +250,85 @@ export function detectDelimiter(text: string, headerRow = 1): CsvDelimiter {
   return best;
 }
 
+/** Calls `visit` with every row's cells (blank rows included), numbered as a spreadsheet numbers them. */
+function scanRows(text: string, delimiter: CsvDelimiter, visit: (row: number, cells: string[]) => void): void {
+  if (text.includes('"')) {
+    for (const r of parseCsv(text, delimiter)) visit(r.row, r.cells);
+    return;
+  }
+  let i = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  let row = 1;
+  while (i < text.length) {
+    const end = lineEnd(text, i);
+    visit(row++, text.slice(i, end).split(delimiter));
+    i = nextLine(text, end);
+  }
+}
+
+function lineEnd(text: string, from: number): number {
+  let k = from;
+  while (k < text.length) {
+    const c = text.charCodeAt(k);
+    if (c === LF || c === CR) return k;
+    k++;
+  }
+  return k;
+}
+
+function nextLine(text: string, end: number): number {
+  return end + (text.charCodeAt(end) === CR && text.charCodeAt(end + 1) === LF ? 2 : 1);
+}
+
 /**
- * Calls `visit` for every row of the file with the cells at `columns` (undefined where a row is
- * short), or every cell when `columns` is 'all'. The cells array is reused between calls.
- * Text without any quote character (what most instruments write) is scanned line by line,
- * slicing only the wanted cells, so a 100,000-row record does not become 300,000 strings.
+ * Calls `visit` for every row with where the wanted columns' cells lie in `src`: cell k is
+ * src[starts[k], ends[k]), or missing when starts[k] is -1. The arrays are reused between rows.
+ * Text without any quote character (what most instruments write) is scanned in place, so a
+ * 100,000-row record does not become 300,000 strings; quoted text goes through {@link parseCsv}.
  */
-function scanRows(
+function scanCells(
   text: string,
   delimiter: CsvDelimiter,
-  columns: readonly number[] | 'all',
-  visit: (row: number, cells: (string | undefined)[]) => void,
+  wanted: readonly number[],
+  visit: (row: number, src: string, starts: Int32Array, ends: Int32Array) => void,
 ): void {
+  const starts = new Int32Array(wanted.length);
+  const ends = new Int32Array(wanted.length);
   if (text.includes('"')) {
     for (const r of parseCsv(text, delimiter)) {
-      visit(r.row, columns === 'all' ? r.cells : columns.map((c) => r.cells[c]));
+      let src = '';
+      wanted.forEach((column, k) => {
+        const cell = r.cells[column];
+        starts[k] = cell === undefined ? -1 : src.length;
+        src += cell ?? '';
+        ends[k] = src.length;
+      });
+      visit(r.row, src, starts, ends);
     }
     return;
   }
   const sep = delimiter.charCodeAt(0);
-  const n = text.length;
-  const wanted = columns === 'all' ? null : columns;
-  const last = wanted === null ? Infinity : Math.max(-1, ...wanted);
-  const cells: (string | undefined)[] = [];
+  const last = Math.max(-1, ...wanted);
   let i = text.charCodeAt(0) === 0xfeff ? 1 : 0;
   let row = 1;
-  while (i < n) {
-    let lineEnd = i;
-    while (lineEnd < n) {
-      const c = text.charCodeAt(lineEnd);
-      if (c === LF || c === CR) break;
-      lineEnd++;
-    }
-    if (wanted === null) {
-      cells.length = 0;
-      for (const cell of text.slice(i, lineEnd).split(delimiter)) cells.push(cell);
-    } else {
-      cells.length = wanted.length;
-      cells.fill(undefined);
-      let col = 0;
-      let fieldStart = i;
-      for (let j = i; j <= lineEnd && col <= last; j++) {
-        if (j === lineEnd || text.charCodeAt(j) === sep) {
-          for (let k = 0; k < wanted.length; k++) if (wanted[k] === col) cells[k] = text.slice(fieldStart, j);
-          col++;
-          fieldStart = j + 1;
+  while (i < text.length) {
+    const end = lineEnd(text, i);
+    starts.fill(-1);
+    let column = 0;
+    let fieldStart = i;
+    for (let j = i; j <= end && column <= last; j++) {
+      if (j === end || text.charCodeAt(j) === sep) {
+        for (let k = 0; k < wanted.length; k++) {
+          if (wanted[k] === column) {
+            starts[k] = fieldStart;
+            ends[k] = j;
+          }
         }
+        column++;
+        fieldStart = j + 1;
       }
     }
-    visit(row, cells);
-    row++;
-    i = lineEnd + (text.charCodeAt(lineEnd) === CR && text.charCodeAt(lineEnd + 1) === LF ? 2 : 1);
+    visit(row++, text, starts, ends);
+    i = nextLine(text, end);
   }
 }
 
@@ -357,22 +385,86 @@ export function inspectCsv(text: string, options: CsvReadOptions = {}): RecordOu
   const { delimiter, headers, headerRow } = head.value;
   const sampleRows: string[][] = [];
   let rowCount = 0;
-  scanRows(text, delimiter, 'all', (row, cells) => {
+  scanRows(text, delimiter, (row, cells) => {
     if (row <= headerRow || isBlankCells(cells)) return;
     rowCount++;
-    if (sampleRows.length < SAMPLE_ROW_COUNT) sampleRows.push(cells.map((c) => c ?? ''));
+    if (sampleRows.length < SAMPLE_ROW_COUNT) sampleRows.push(cells);
   });
   return { ok: true, value: { delimiter, headers, sampleRows, rowCount } };
 }
 
-const NUMBER = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
+const POWERS_OF_TEN = Array.from({ length: 23 }, (_, k) => 10 ** k);
 
-/** Reads a decimal literal and multiplies it by 10^shift by moving its exponent, so no binary rounding enters twice. */
-function scaledNumber(text: string, shift: number): number {
-  if (shift === 0) return Number(text);
-  const e = text.search(/[eE]/);
-  if (e < 0) return Number(`${text}e${shift}`);
-  return Number(`${text.slice(0, e)}e${Number(text.slice(e + 1)) + shift}`);
+/**
+ * Reads the decimal literal text[start, end) (spaces around it allowed) multiplied by 10^shift,
+ * or NaN when it is not a plain decimal literal (digits, one decimal mark, an optional exponent).
+ * Up to 15 significant digits and a net exponent within ±22 are converted with one correctly
+ * rounded multiplication or division of exact operands, so the result equals what Number() gives
+ * for the shifted text; longer literals go through Number() itself.
+ */
+function readDecimal(text: string, start: number, end: number, decimalComma: boolean, shift: number): number {
+  let i = start;
+  let j = end;
+  while (i < j && text.charCodeAt(i) === 32) i++;
+  while (j > i && text.charCodeAt(j - 1) === 32) j--;
+  if (i === j) return Number.NaN;
+  const markCode = decimalComma ? 44 : 46;
+  let negative = false;
+  const first = text.charCodeAt(i);
+  if (first === 43 || first === 45) {
+    negative = first === 45;
+    i++;
+  }
+  let mantissa = 0;
+  let digits = 0;
+  let significant = 0;
+  let fraction = 0;
+  let seenMark = false;
+  let k = i;
+  for (; k < j; k++) {
+    const c = text.charCodeAt(k);
+    if (c >= 48 && c <= 57) {
+      digits++;
+      if (significant > 0 || c !== 48) significant++;
+      mantissa = mantissa * 10 + (c - 48);
+      if (seenMark) fraction++;
+    } else if (c === markCode && !seenMark) {
+      seenMark = true;
+    } else {
+      break;
+    }
+  }
+  if (digits === 0) return Number.NaN;
+  let exponent = 0;
+  if (k < j) {
+    const e = text.charCodeAt(k);
+    if (e !== 101 && e !== 69) return Number.NaN;
+    k++;
+    let expNegative = false;
+    const sign = text.charCodeAt(k);
+    if (sign === 43 || sign === 45) {
+      expNegative = sign === 45;
+      k++;
+    }
+    if (k >= j) return Number.NaN;
+    for (; k < j; k++) {
+      const c = text.charCodeAt(k);
+      if (c < 48 || c > 57) return Number.NaN;
+      exponent = exponent * 10 + (c - 48);
+      if (exponent > 1e6) return Number.NaN;
+    }
+    if (expNegative) exponent = -exponent;
+  }
+  const net = exponent - fraction + shift;
+  let value: number;
+  if (significant <= 15 && net >= -22 && net <= 22) {
+    const power = POWERS_OF_TEN[Math.abs(net)] ?? 1;
+    value = net < 0 ? mantissa / power : mantissa * power;
+  } else {
+    const literal = text.slice(i, k).replace(',', '.').replace(/[eE].*$/, '');
+    value = Number(`${literal}e${exponent + shift}`);
+  }
+  return negative ? -value : value;
 }
 
 const FORCE_SCALE: Record<RecordForceUnit, { shift: number; factor: number }> = {
@@ -509,39 +601,51 @@ export function mapRecord(
 
   const cellProblems: RecordProblem[] = [];
   let cellProblemCount = 0;
-  const read = (row: number, index: number, raw: string | undefined): string | null => {
-    const name = columnName(headers, index);
-    if (raw === undefined || raw.trim() === '') {
-      cellProblemCount++;
-      if (cellProblems.length < MAX_LISTED_PROBLEMS) {
-        cellProblems.push(problem('missing-cell', `Row ${row} has no value in column "${name}".`, { row, column: name }));
-      }
-      return null;
+  const report = (row: number, index: number, raw: string) => {
+    cellProblemCount++;
+    if (cellProblems.length >= MAX_LISTED_PROBLEMS) return;
+    const column = columnName(headers, index);
+    if (raw.trim() === '') {
+      cellProblems.push(problem('missing-cell', `Row ${row} has no value in column "${column}".`, { row, column }));
+      return;
     }
-    const cell = comma ? raw.trim().replace(',', '.') : raw.trim();
-    if (!NUMBER.test(cell)) {
-      cellProblemCount++;
-      if (cellProblems.length < MAX_LISTED_PROBLEMS) {
-        const hint = !comma && /^[+-]?\d+,\d+$/.test(cell) ? ' (a decimal comma? choose it as the decimal mark)' : '';
-        cellProblems.push(problem('non-numeric', `Row ${row}, column "${name}": "${raw}" is not a number${hint}.`, { row, column: name }));
-      }
-      return null;
-    }
-    return cell;
+    const hint = !comma && /^\s*[+-]?\d+,\d+\s*$/.test(raw) ? ' (a decimal comma? choose it as the decimal mark)' : '';
+    cellProblems.push(problem('non-numeric', `Row ${row}, column "${column}": "${raw}" is not a number${hint}.`, { row, column }));
   };
 
   const points: ForcePoint[] = [];
   const wanted = timeCol === undefined ? [forceCol, extCol] : [forceCol, extCol, timeCol];
-  // A row whose mapped cells are all empty is a blank row (or a trailing line of separators) and is skipped.
-  scanRows(text, delimiter, wanted, (row, cells) => {
-    if (row <= headerRow || isBlankCells(cells)) return;
-    const f = read(row, forceCol, cells[0]);
-    const e = read(row, extCol, cells[1]);
-    const t = timeCol === undefined ? null : read(row, timeCol, cells[2]);
-    if (f === null || e === null || (timeCol !== undefined && t === null)) return;
-    const forceN = factor === 1 ? scaledNumber(f, shift) : scaledNumber(f, shift) * factor;
-    const extensionMm = lengthFactor === 1 ? Number(e) : Number(e) * lengthFactor;
-    points.push(t === null ? { forceN, extensionMm } : { forceN, extensionMm, timeS: Number(t) });
+  const shifts = [shift, 0, 0];
+  const values = new Float64Array(wanted.length);
+  scanCells(text, delimiter, wanted, (row, src, starts, ends) => {
+    if (row <= headerRow) return;
+    let blank = true;
+    for (let k = 0; k < wanted.length && blank; k++) {
+      const b = ends[k] ?? -1;
+      for (let c = starts[k] ?? -1; c >= 0 && c < b; c++) {
+        if (src.charCodeAt(c) !== 32) {
+          blank = false;
+          break;
+        }
+      }
+    }
+    // A row whose mapped cells are all empty is a blank row (or a trailing line of separators).
+    if (blank) return;
+    let good = true;
+    for (let k = 0; k < wanted.length; k++) {
+      const a = starts[k] ?? -1;
+      const b = ends[k] ?? -1;
+      const value = a < 0 ? Number.NaN : readDecimal(src, a, b, comma, shifts[k] ?? 0);
+      if (Number.isNaN(value)) {
+        report(row, wanted[k] ?? -1, a < 0 ? '' : src.slice(a, b));
+        good = false;
+      }
+      values[k] = value;
+    }
+    if (!good) return;
+    const forceN = (values[0] ?? 0) * factor;
+    const extensionMm = (values[1] ?? 0) * lengthFactor;
+    points.push(timeCol === undefined ? { forceN, extensionMm } : { forceN, extensionMm, timeS: values[2] ?? 0 });
   });
   if (cellProblemCount > 0) {
     const more = cellProblemCount - cellProblems.length;
