@@ -438,7 +438,10 @@ describe('detectAnomalies: two places at once', () => {
     ]);
     const found = detectAnomalies({ item: HALF_A, kind: 'half', events, now: iso(12), stationKinds: STATIONS });
     expect(codes(found)).toEqual(['two_places', 'out_of_sequence']);
-    expect(found[0]).toMatchObject({ eventSeq: 3, details: { place: BAG, otherPlace: 'FRAME-2', otherSeq: 1, overlapHours: 0.3 } });
+    expect(found[0]).toMatchObject({
+      eventSeq: 3,
+      details: { place: BAG, otherPlace: 'FRAME-2', otherSeq: 1, fromOtherRecord: false, overlapHours: 0.3 },
+    });
     expect(found[0].message).toBe(
       `${HALF_A} is recorded at ${BAG} (seq 3) from ${iso(10.2)} while the ledger still has it at FRAME-2 (seq 1), for 18 min.`,
     );
@@ -468,7 +471,13 @@ describe('detectAnomalies: two places at once', () => {
     const mine = half([{ type: 'binned', h: 10.1, station: 'BINS-1', container: BIN_A }]);
     const elsewhere = [{ item: HALF_A, piece: HALF_A, seq: 7, station: 'STORE-1', container: BAG, from: iso(11), until: null }];
     const found = detectAnomalies({ item: HALF_A, kind: 'half', events: mine, now: iso(12), otherPlacements: elsewhere });
-    expect(found).toMatchObject([{ code: 'two_places', eventSeq: 7, details: { place: BAG, otherPlace: BIN_A, overlapHours: 1 } }]);
+    // eventSeq points into this item's chain (the binning, seq 2); the other record's seq is in details.
+    expect(found).toMatchObject([
+      { code: 'two_places', eventSeq: 2, details: { place: BAG, otherPlace: BIN_A, otherSeq: 7, fromOtherRecord: true, overlapHours: 1 } },
+    ]);
+    expect(found[0].message).toBe(
+      `${HALF_A} is recorded at ${BAG} (seq 7, another record) from ${iso(11)} while the ledger still has it at ${BIN_A} (seq 2), for 1 h.`,
+    );
   });
 
   it('finds nothing when places follow each other', () => {

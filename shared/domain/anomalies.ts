@@ -434,19 +434,22 @@ function twoPlaces(
     const [laterFrom, laterUntil] = span(later, now);
     for (let i = 0; i < j; i++) {
       const earlier = candidates[i];
-      if (placeOf(earlier) === placeOf(later)) continue;
+      // Candidates list this chain's placements first, so `earlier` is this chain's when either is.
+      const mine = j < own.length ? later : i < own.length ? earlier : null;
+      if (mine === null || placeOf(earlier) === placeOf(later)) continue;
       const [earlierFrom, earlierUntil] = span(earlier, now);
       const overlap = Math.min(earlierUntil, laterUntil) - Math.max(earlierFrom, laterFrom);
       if (overlap <= toleranceMs) continue;
       found.push({
         code: 'two_places',
         severity: 'critical',
-        eventSeq: later.seq,
-        message: `${item} is recorded at ${placeOf(later)} (seq ${later.seq}) from ${later.from} while the ledger still has it at ${placeOf(earlier)} (seq ${earlier.seq}), for ${describeSpan(overlap)}.`,
+        eventSeq: mine.seq,
+        message: `${item} is recorded at ${placeOf(later)} (seq ${later.seq}${j < own.length ? '' : ', another record'}) from ${later.from} while the ledger still has it at ${placeOf(earlier)} (seq ${earlier.seq}), for ${describeSpan(overlap)}.`,
         details: {
           place: placeOf(later),
           otherPlace: placeOf(earlier),
-          otherSeq: earlier.seq,
+          otherSeq: mine === later ? earlier.seq : later.seq,
+          fromOtherRecord: j >= own.length,
           overlapHours: hours(overlap),
         },
       });
