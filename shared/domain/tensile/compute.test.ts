@@ -124,6 +124,15 @@ describe('tensileStrength, elongationAfterFracture, reductionOfArea', () => {
     expect(ISO_6892_1_ROUNDING).toEqual({ strength: '1', yieldPointElongation: '0.1', elongation: '0.5', reductionOfArea: '0.5' });
   });
 
+  it('rounds the ASTM E29 examples on the reported path', () => {
+    // ASTM E29 rounding method examples (read in a secondary copy): 45.75 → 45.8, 45.45 → 45.4,
+    // 45.45001 → 45.5, here as Rm = Fm / 100 mm² rounded to 0.1 MPa.
+    const rm = (fm: string) => value(computeTensile({ s0Mm2: '100', maxForceN: fm }, { rounding: { strength: '0.1' } }).properties.tensileStrength);
+    expect(rm('4575')).toBe('45.8');
+    expect(rm('4545')).toBe('45.4');
+    expect(rm('4545.001')).toBe('45.5');
+  });
+
   it('takes a specification’s own rounding when given', () => {
     const results = computeTensile({ s0Mm2: '100', maxForceN: '45150' }, { rounding: { strength: '5' } });
     expect(value(results.properties.tensileStrength)).toBe('450');
