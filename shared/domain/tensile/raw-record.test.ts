@@ -144,6 +144,13 @@ describe('mapRecord', () => {
     expect(byName.columns).toEqual({ time: 'Time (s)', force: 'Force (kN)', extension: 'Extension (mm)' });
   });
 
+  it('reads files whose lines end in CR alone, and skips notes above the header', () => {
+    const text = ['Test of 2026', 'F;e', ...Array.from({ length: 10 }, (_, i) => `${i};${i / 10}`)].join('\r');
+    const record = ok(mapRecord(text, { force: 'F', extension: 'e' }, { force: 'N', extension: 'mm' }, 50, { headerRow: 2 }));
+    expect(record.delimiter).toBe(';');
+    expect(record.points[9]).toEqual({ forceN: 9, extensionMm: 0.9 });
+  });
+
   it('reads decimal commas with a semicolon separator', () => {
     const text = ['Kraft;Weg', ...Array.from({ length: 10 }, (_, i) => `${i},5;0,0${i}`)].join('\n');
     const record = ok(mapRecord(text, { force: 'Kraft', extension: 'Weg' }, { force: 'N', extension: 'mm' }, 50, { decimalMark: ',' }));

@@ -221,12 +221,10 @@ function isBlankCells(cells: readonly (string | undefined)[]): boolean {
 function headerLine(text: string, headerRow: number): string {
   let start = text.charCodeAt(0) === 0xfeff ? 1 : 0;
   for (let r = 1; r < headerRow; r++) {
-    const lf = text.indexOf('\n', start);
-    if (lf < 0) return '';
-    start = lf + 1;
+    if (start >= text.length) return '';
+    start = nextLine(text, lineEnd(text, start));
   }
-  const end = text.indexOf('\n', start);
-  return text.slice(start, end < 0 ? text.length : end);
+  return text.slice(start, lineEnd(text, start));
 }
 
 /**
@@ -359,7 +357,7 @@ function readHead(text: string, options: CsvReadOptions): RecordOutcome<TableHea
     if (text.includes('"')) {
       headers = parseCsv(text, delimiter).find((r) => r.row === headerRow)?.cells ?? null;
     } else {
-      headers = headerLine(text, headerRow).replace(/\r$/, '').split(delimiter);
+      headers = headerLine(text, headerRow).split(delimiter);
     }
   } catch (error) {
     const message = error instanceof Error ? error.message : String(error);
