@@ -18,6 +18,7 @@ const router = createBrowserRouter([
     loader: requireSession,
     children: [
       { path: paths.home.path, lazy: () => import('./routes/home').then((m) => ({ Component: m.HomeRoute })) },
+      { path: paths.labels.path, lazy: () => import('./routes/labels').then((m) => ({ Component: m.LabelsRoute })) },
       { path: '*', lazy: () => import('./routes/not-found').then((m) => ({ Component: m.NotFoundRoute })) },
     ],
   },

@@ -8,4 +8,9 @@ export const paths = {
   users: { path: '/users', label: 'People' },
   stations: { path: '/stations', label: 'Stations' },
   outbox: { path: '/outbox', label: 'Outbox' },
+  labels: {
+    path: '/labels',
+    label: 'Labels',
+    href: (kind: string, codes: readonly string[]) => `/labels?kind=${encodeURIComponent(kind)}&codes=${codes.map(encodeURIComponent).join(',')}`,
+  },
 } as const;

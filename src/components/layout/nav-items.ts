@@ -12,6 +12,7 @@ export interface NavItem {
 /** The main navigation; screens add themselves here with the action they need. */
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: paths.home.path, label: paths.home.label, glyph: '◆' },
+  { to: paths.labels.path, label: paths.labels.label, glyph: '⎙', requires: 'labels.print' },
   { to: paths.users.path, label: paths.users.label, glyph: '☷', requires: 'users.read' },
   { to: paths.stations.path, label: paths.stations.label, glyph: '▣', requires: 'stations.write' },
   { to: paths.outbox.path, label: paths.outbox.label, glyph: '✉', requires: 'outbox.read' },
