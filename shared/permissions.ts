@@ -29,6 +29,7 @@ export const ACTIONS = [
   'retention.write', // retention rules, holds
   'disposals.write', // signed disposal and return batches
   'results.write', // enter results, issue reports
+  'specifications.write', // add specifications to the limits table
   'outbox.read', // the development mail outbox
 ] as const;
 export type Action = (typeof ACTIONS)[number];
@@ -41,7 +42,7 @@ export const ROLE_PERMISSIONS: Record<Role, readonly Action[]> = {
   clerk: [...READ, 'containers.write', 'events.record', 'labels.print', 'retention.write', 'disposals.write'],
   auditor: [...READ, 'users.read'],
   manager: [...READ, 'intake.write', 'containers.write', 'events.record', 'events.void', 'labels.print',
-    'users.read', 'users.write', 'stations.write', 'retention.write', 'disposals.write', 'results.write', 'outbox.read'],
+    'users.read', 'users.write', 'stations.write', 'retention.write', 'disposals.write', 'results.write', 'specifications.write', 'outbox.read'],
 };
 
 /** Actions an instrument token may ever take; its event types narrow events.record further. */
