@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url';
 import { createApp, createContext } from './app';
 import type { Config } from './config';
 import { createSequelize } from './db';
+import { startSealScheduler } from './commands/seal-day';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -19,6 +20,8 @@ export async function listen(config: Config): Promise<RunningServer> {
   const sequelize = createSequelize(config.DATABASE_URL, { poolMax: config.DB_POOL_MAX });
   await sequelize.authenticate();
   const app = createApp(createContext(config, sequelize), { clientDir: path.join(root, 'dist') });
+  // Seals each finished UTC day once; several servers coordinate through an advisory lock.
+  const sealer = startSealScheduler(sequelize);
   const server = await new Promise<Server>((resolve, reject) => {
     const s = app.listen(config.PORT, config.HOST, () => resolve(s));
     s.once('error', reject);
@@ -29,6 +32,7 @@ export async function listen(config: Config): Promise<RunningServer> {
     server,
     url: `http://${config.HOST}:${port}`,
     close: async () => {
+      sealer.stop();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
       await sequelize.close();

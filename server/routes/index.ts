@@ -9,6 +9,10 @@ import { heatsRouter } from './heats/router';
 import { ordersRouter } from './orders/router';
 import { samplesRouter } from './samples/router';
 import { specimensRouter } from './specimens/router';
+import { eventsRouter } from './events/router';
+import { itemsRouter } from './items/router';
+import { ledgerRouter } from './ledger/router';
+import { containersRouter } from './containers/router';
 import { labelsRouter } from './labels/router';
 
 /** Mounts every resource router under /api. */
@@ -24,6 +28,10 @@ export function apiRouter(): Router {
   router.use('/heats', heatsRouter());
   router.use('/samples', samplesRouter());
   router.use('/specimens', specimensRouter());
+  router.use('/events', eventsRouter());
+  router.use('/items', itemsRouter());
+  router.use('/ledger', ledgerRouter());
+  router.use('/containers', containersRouter());
   router.use('/labels', labelsRouter());
   return router;
 }
