@@ -11,6 +11,8 @@ import { buildClientIfStale } from './lib/client-build';
 import { prepareDatabase, type PreparedDatabase } from './lib/embedded-db';
 import { migrateUp } from './lib/migrate';
 import { loadDemoIfEmpty } from './lib/demo';
+import { loadDemoUsers } from './lib/demo-users';
+import { startMailStandIn } from './lib/smtp-stand-in';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const dataDir = path.resolve(root, process.env.DATA_DIR ?? '.data');
@@ -18,6 +20,7 @@ const started = Date.now();
 
 let db: PreparedDatabase | null = null;
 let running: RunningServer | null = null;
+let mail: Awaited<ReturnType<typeof startMailStandIn>> = null;
 let stopping = false;
 
 async function stop(signal: string): Promise<void> {
@@ -26,6 +29,7 @@ async function stop(signal: string): Promise<void> {
   console.log(`\n${signal}: stopping Halfmark …`);
   try {
     await running?.close();
+    await mail?.server.close();
   } finally {
     db?.cluster?.stop();
     console.log('Stopped.');
@@ -37,9 +41,11 @@ process.on('SIGTERM', () => void stop('SIGTERM'));
 
 try {
   db = await prepareDatabase(dataDir);
+  mail = await startMailStandIn(dataDir);
   const config = loadConfig({
     NODE_ENV: 'production',
     ...process.env,
+    ...mail?.env,
     DATABASE_URL: db.appUrl,
     MIGRATION_DATABASE_URL: db.ownerUrl,
     SESSION_SECRET: db.sessionSecret,
@@ -48,11 +54,14 @@ try {
   const applied = await migrateUp(db.ownerUrl, db.appUrl);
   if (applied.length) console.log(`Migrations applied: ${applied.length}`);
   const demo = await loadDemoIfEmpty(config);
+  const demoUsers = await loadDemoUsers(config);
   buildClientIfStale(root);
   running = await listen(config);
   console.log(`\nHalfmark is running at ${running.url}  (ready in ${((Date.now() - started) / 1000).toFixed(1)} s)`);
   console.log(db.cluster ? `Database: private PostgreSQL in ${db.cluster.dir} on 127.0.0.1:${db.cluster.port}` : 'Database: DATABASE_URL');
+  console.log(mail ? `Mail: stand-in SMTP on ${mail.server.host}:${mail.server.port}; nothing is delivered, managers read it on the Outbox page (kept in ${mail.env.SMTP_OUTBOX_DIR})` : `Mail: SMTP via ${config.SMTP_HOST}:${config.SMTP_PORT}`);
   if (demo) console.log(demo);
+  if (demoUsers) console.log(demoUsers);
   console.log('Press Ctrl-C to stop.');
 } catch (err) {
   console.error(err instanceof ConfigError ? err.message : err);

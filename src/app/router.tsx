@@ -11,6 +11,16 @@ const router = createBrowserRouter([
     lazy: () => import('./routes/sign-in').then((m) => ({ Component: m.SignInRoute, loader: m.loader })),
   },
   {
+    path: paths.forgotPassword.path,
+    errorElement: <RouteError />,
+    lazy: () => import('./routes/forgot-password').then((m) => ({ Component: m.ForgotPasswordRoute })),
+  },
+  {
+    path: paths.setPassword.path,
+    errorElement: <RouteError />,
+    lazy: () => import('./routes/set-password').then((m) => ({ Component: m.SetPasswordRoute })),
+  },
+  {
     path: '/',
     element: <AppShell />,
     errorElement: <RouteError />,
@@ -19,6 +29,10 @@ const router = createBrowserRouter([
     children: [
       { path: paths.home.path, lazy: () => import('./routes/home').then((m) => ({ Component: m.HomeRoute })) },
       { path: paths.labels.path, lazy: () => import('./routes/labels').then((m) => ({ Component: m.LabelsRoute })) },
+      { path: paths.account.path, lazy: () => import('./routes/account').then((m) => ({ Component: m.AccountRoute })) },
+      { path: paths.users.path, lazy: () => import('./routes/users').then((m) => ({ Component: m.UsersRoute })) },
+      { path: paths.stations.path, lazy: () => import('./routes/stations').then((m) => ({ Component: m.StationsRoute })) },
+      { path: paths.outbox.path, lazy: () => import('./routes/outbox').then((m) => ({ Component: m.OutboxRoute })) },
       { path: '*', lazy: () => import('./routes/not-found').then((m) => ({ Component: m.NotFoundRoute })) },
     ],
   },
