@@ -14,6 +14,9 @@ import { itemsRouter } from './items/router';
 import { ledgerRouter } from './ledger/router';
 import { containersRouter } from './containers/router';
 import { labelsRouter } from './labels/router';
+import { resultsRouter } from './results/router';
+import { specificationsRouter } from './specifications/router';
+import { reportsRouter } from './reports/router';
 
 /** Mounts every resource router under /api. */
 export function apiRouter(): Router {
@@ -33,5 +36,8 @@ export function apiRouter(): Router {
   router.use('/ledger', ledgerRouter());
   router.use('/containers', containersRouter());
   router.use('/labels', labelsRouter());
+  router.use('/results', resultsRouter());
+  router.use('/specifications', specificationsRouter());
+  router.use('/reports', reportsRouter());
   return router;
 }
