@@ -5,6 +5,7 @@ import { createApp, createContext } from './app';
 import type { Config } from './config';
 import { createSequelize } from './db';
 import { startSealScheduler } from './commands/seal-day';
+import { startDigestScheduler } from './jobs/retention-digest';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -19,9 +20,12 @@ export interface RunningServer {
 export async function listen(config: Config): Promise<RunningServer> {
   const sequelize = createSequelize(config.DATABASE_URL, { poolMax: config.DB_POOL_MAX });
   await sequelize.authenticate();
-  const app = createApp(createContext(config, sequelize), { clientDir: path.join(root, 'dist') });
+  const ctx = createContext(config, sequelize);
+  const app = createApp(ctx, { clientDir: path.join(root, 'dist') });
   // Seals each finished UTC day once; several servers coordinate through an advisory lock.
   const sealer = startSealScheduler(sequelize);
+  // Mails the clerks what falls due; the day's job_runs row lets only one server send it.
+  const digest = startDigestScheduler(ctx);
   const server = await new Promise<Server>((resolve, reject) => {
     const s = app.listen(config.PORT, config.HOST, () => resolve(s));
     s.once('error', reject);
@@ -33,6 +37,7 @@ export async function listen(config: Config): Promise<RunningServer> {
     url: `http://${config.HOST}:${port}`,
     close: async () => {
       sealer.stop();
+      digest.stop();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
       await sequelize.close();
