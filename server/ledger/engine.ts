@@ -329,7 +329,8 @@ class Unit {
       payload: input.payload as HashedEvent['payload'],
       idempotencyKey: key,
       corrects,
-      signature: type === 'voided' ? (this.opts.signature ?? null) : null,
+      // Voids must carry one; other signed actions (disposal, return, override) may.
+      signature: this.opts.signature ?? null,
       prevHash: item.projection.headHash,
     };
     // The state machine speaks first: a scan that does not fit answers 409 whatever its payload.

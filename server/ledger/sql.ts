@@ -54,7 +54,10 @@ export const WRITE_EVENTS_SQL = `
            (SELECT st.id FROM stations st WHERE st.code = x.station_code), x.station_code,
            (SELECT ci.id FROM items ci WHERE ci.code = x.container_code), x.container_code,
            x.occurred_at, x.recorded_at, x.payload, x.idempotency_key,
-           (SELECT ce.id FROM custody_events ce WHERE ce.hash = x.corrects_hash), x.corrects_hash,
+           -- hash is char(64): compare as char(64) so its unique index serves the lookup.
+           CASE WHEN x.corrects_hash IS NULL THEN NULL
+                ELSE (SELECT ce.id FROM custody_events ce WHERE ce.hash = x.corrects_hash::char(64)) END,
+           x.corrects_hash,
            x.signature, x.prev_hash, x.hash
       FROM x
     ON CONFLICT (idempotency_key) DO NOTHING

@@ -58,7 +58,7 @@ export interface RecordOptions {
   actor: LedgerActor;
   /** Run inside the caller's transaction (intake registering specimens); else the ledger opens its own. */
   transaction?: Transaction;
-  /** The signature a void (or another signed event) carries, already checked and consumed. */
+  /** The signature the event carries (required for a void; disposals and overrides may pass theirs), already checked and consumed. Applies to every event of the unit. */
   signature?: z.infer<typeof EventSignature> | null;
   /** Let `registered` and `split_from` through: only the server's own registration paths do. */
   allowRegistration?: boolean;
