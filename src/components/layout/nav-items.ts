@@ -13,6 +13,11 @@ export interface NavItem {
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: paths.home.path, label: paths.home.label, glyph: '◆' },
   { to: paths.labels.path, label: paths.labels.label, glyph: '⎙', requires: 'labels.print' },
+  { to: paths.orders.path, label: paths.orders.label, glyph: '▤', requires: 'lab.read' },
+  { to: paths.specimens.path, label: paths.specimens.label, glyph: '◧', requires: 'lab.read' },
+  { to: paths.heats.path, label: paths.heats.label, glyph: '♨', requires: 'lab.read' },
+  { to: paths.samples.path, label: paths.samples.label, glyph: '▱', requires: 'lab.read' },
+  { to: paths.customers.path, label: paths.customers.label, glyph: '◎', requires: 'lab.read' },
   { to: paths.users.path, label: paths.users.label, glyph: '☷', requires: 'users.read' },
   { to: paths.stations.path, label: paths.stations.label, glyph: '▣', requires: 'stations.write' },
   { to: paths.outbox.path, label: paths.outbox.label, glyph: '✉', requires: 'outbox.read' },
