@@ -1,15 +1,32 @@
 import type { Sequelize } from 'sequelize';
 import type { AppContext } from '../app';
-import { registerSpecimens } from '../commands/create-cut-list';
-import type { Role } from '../../shared/permissions';
+import { defineModels } from '../models/registry';
+import { badgeCode } from '../../shared/domain/codes';
+import { ROLE_LABELS, type Role } from '../../shared/permissions';
+import { hashPassword } from '../auth/passwords';
+import { createCutList } from '../commands/create-cut-list';
+import { recordEvent, type LedgerActor } from '../commands/record-event';
+import { registerContainer } from '../commands/register-container';
+
+/** The demo lab's people: one per role. Invented names; the passwords are for the demo only. */
+export const DEMO_USERS: { role: Role; name: string; email: string; password: string; pin: string }[] = [
+  { role: 'manager', name: 'Rowan Ashdown', email: 'rowan@larchmere.example', password: 'demo-manager-2026', pin: '2468' },
+  { role: 'machinist', name: 'Tess Marlow', email: 'tess@larchmere.example', password: 'demo-machinist-2026', pin: '1357' },
+  { role: 'technician', name: 'Idris Penhale', email: 'idris@larchmere.example', password: 'demo-technician-2026', pin: '8642' },
+  { role: 'clerk', name: 'Jun Calloway', email: 'jun@larchmere.example', password: 'demo-clerk-2026', pin: '9753' },
+  { role: 'auditor', name: 'Saskia Brandt', email: 'saskia@larchmere.example', password: 'demo-auditor-2026', pin: '3141' },
+];
+
+const FLAT_40 = { shape: 'flat', width: ['40.06', '39.94', '40.02'], thickness: ['12.71', '12.68', '12.70'] };
+const FLAT_12_5 = { shape: 'flat', width: ['12.52', '12.47', '12.50'], thickness: ['1.99', '2.02', '2.00'] };
 
 /**
  * The invented demo lab, "Larchmere Materials Testing": every name, number and person in it is
- * made up for demonstration. Returns the lines `npm start` prints about it.
+ * made up. This part writes the reference data: stations, customers, orders and heats.
  */
 export async function seedDemoLab(sequelize: Sequelize): Promise<string> {
   await sequelize.transaction(async (transaction) => {
-    const q = (sql: string, bind: unknown[] = []) => sequelize.query(sql, { bind, transaction });
+    const q = (sql: string) => sequelize.query(sql, { transaction });
     await q(`INSERT INTO stations (code, name, kind) VALUES
       ('SAW-1','Band saw bay','saw'), ('MILL-1','Specimen mill','mill'),
       ('COND-1','Conditioning chamber 23/50','conditioning'), ('GAUGE-1','Dimension gauge','gauge'),
@@ -30,86 +47,133 @@ export async function seedDemoLab(sequelize: Sequelize): Promise<string> {
       ('K7-20455','HSLA steel plate','A572 Gr 50','Kessock Steel (invented)','KS-88213'),
       ('AL-6061-7731','Aluminium sheet','6061-T6','Brackwater Aluminium (invented)','BA-2026-7731')`);
     await q(`INSERT INTO order_heats (order_id, heat_id) VALUES (1,1), (1,2), (2,3), (3,4)`);
-    // Samples of the orders already in test; their specimens are registered through the ledger by seedDemoSpecimens.
-    await q(`INSERT INTO samples (code, order_id, heat_id, position, orientation, thickness_mm)
-      SELECT 'P26-' || lpad(nextval('sample_serial_seq')::text, 5, '0'), o, h, pos, ori, t FROM (VALUES
-        (1, 1, 'head end, quarter-width', 'transverse', 12.700),
-        (1, 2, 'head end, quarter-width', 'transverse', 12.700),
-        (3, 4, 'mid-length, centre', 'longitudinal', 1.600)) AS v(o, h, pos, ori, t)`);
   });
   return 'Demo lab loaded: Larchmere Materials Testing (invented data).';
 }
 
-/**
- * One demo person per role, for trying Halfmark out. The passwords are printed by `npm start`
- * and listed in the README: they are for the demo only and must never guard real data.
- */
-export const DEMO_USERS = [
-  { role: 'machinist', name: 'Tamsin Rook', email: 'machinist@larchmere.example', password: 'demo-machinist-pass' },
-  { role: 'technician', name: 'Idris Penhale', email: 'technician@larchmere.example', password: 'demo-technician-pass' },
-  { role: 'clerk', name: 'Wren Ashdown', email: 'clerk@larchmere.example', password: 'demo-clerk-pass' },
-  { role: 'auditor', name: 'Odile Marchetti', email: 'auditor@larchmere.example', password: 'demo-auditor-pass' },
-  { role: 'manager', name: 'Bram Okonkwo-Hale', email: 'manager@larchmere.example', password: 'demo-manager-pass' },
-] as const;
+/** The lines npm start prints about the demo sign-ins. */
+export function demoSignInLines(): string {
+  const width = Math.max(...DEMO_USERS.map((u) => u.email.length));
+  return [
+    'Demo sign-ins (demo only; change or remove them before real use):',
+    ...DEMO_USERS.map((u) => `  ${u.email.padEnd(width)}  ${u.password.padEnd(22)} ${ROLE_LABELS[u.role]}`),
+  ].join('\n');
+}
 
-/** Adds the demo people (with badge codes) when the database has nobody yet; returns what to print, or null. */
+/** Adds the demo people, with badges and PINs, when the lab has nobody yet; returns their sign-ins. */
 export async function seedDemoUsers(sequelize: Sequelize): Promise<string | null> {
-  const { hashPassword } = await import('../auth/passwords');
-  const { badgeCode } = await import('../../shared/domain/codes');
-  const [rows] = await sequelize.query('SELECT count(*)::int AS n FROM users');
-  if ((rows as { n: number }[])[0]!.n > 0) return null;
-  await sequelize.transaction(async (transaction) => {
-    for (const u of DEMO_USERS) {
-      await sequelize.query('INSERT INTO users (email, name, role, badge_code, password_hash) VALUES ($1, $2, $3, $4, $5)', {
-        bind: [u.email, u.name, u.role, badgeCode(), await hashPassword(u.password)],
-        transaction,
-      });
-    }
-  });
+  const { User } = defineModels(sequelize);
+  if ((await User.count()) > 0) return null;
+  for (const u of DEMO_USERS) {
+    await User.create({
+      email: u.email,
+      name: u.name,
+      role: u.role,
+      badgeCode: badgeCode(),
+      passwordHash: await hashPassword(u.password),
+      pinHash: await hashPassword(u.pin),
+      lockedUntil: null,
+    });
+  }
   return demoSignInLines();
 }
 
-/** The demo sign-ins as `npm start` prints them. */
-export function demoSignInLines(): string {
-  const width = Math.max(...DEMO_USERS.map((u) => u.email.length));
-  return ['Demo sign-ins (demo only; change or remove them before real use):', ...DEMO_USERS.map((u) => `  ${u.email.padEnd(width)}  ${u.password}  (${u.role})`)].join('\n');
+const DEMO_CUT = { position: 'head end, 50 mm from the edge', orientation: 'longitudinal' };
+
+/** Makes the cut lists of the demo orders in test (LM-26-0101 and LM-26-0103) that have none yet. */
+export async function seedDemoSpecimens(ctx: AppContext, userId: number): Promise<string> {
+  const [rows] = await ctx.sequelize.query(
+    `SELECT o.id FROM orders o WHERE o.number IN ('LM-26-0101','LM-26-0103')
+        AND NOT EXISTS (SELECT 1 FROM samples s WHERE s.order_id = o.id) ORDER BY o.number`,
+  );
+  const user = await ctx.models.User.findByPk(userId);
+  if (!user) throw new Error(`No user ${userId} to register the demo specimens.`);
+  let made = 0;
+  for (const { id } of rows as { id: number }[]) {
+    const result = await createCutList(ctx, id, DEMO_CUT, { kind: 'user', id: user.id, role: user.role });
+    made += result.specimens.length;
+  }
+  return `Demo specimens registered: ${made}.`;
 }
 
 /**
- * Registers the demo samples' specimens (as many as each order asks per heat), each with its
- * `registered` custody event, in the name of a demo person. Skips samples that already have
- * specimens, so it is safe to run again. Returns what to print.
- *
- * @param ctx - The app context (the ledger needs its configuration).
- * @param userId - The person recorded as registering them, e.g. the demo machinist.
+ * Walks the demo specimens through the lab, through the ledger's own command: cut at the saw,
+ * measured, tested to fracture, halves binned and retained in a bag in a box on a shelf, one held
+ * for a saw burn. Containers are registered first. Skipped when the lab already has containers.
  */
-export async function seedDemoSpecimens(ctx: AppContext, userId: number): Promise<string> {
-  const [users] = await ctx.sequelize.query('SELECT id, role FROM users WHERE id = $1', { bind: [userId] });
-  const user = (users as { id: number; role: Role }[])[0];
-  if (!user) throw new Error(`no user ${userId} to register the demo specimens`);
-  const made = await ctx.sequelize.transaction(async (transaction) => {
-    const [samples] = await ctx.sequelize.query(
-      `SELECT s.id, s.code, s.heat_id, s.thickness_mm, h.heat_number, o.number AS order_number, o.geometry_key, o.test_standard, o.specimens_per_heat
-         FROM samples s JOIN heats h ON h.id = s.heat_id JOIN orders o ON o.id = s.order_id
-        WHERE NOT EXISTS (SELECT 1 FROM specimens sp WHERE sp.sample_id = s.id) ORDER BY s.id`,
-      { transaction },
+export async function seedDemoActivity(ctx: AppContext): Promise<string | null> {
+  const [existing] = await ctx.sequelize.query(`SELECT count(*)::int AS n FROM containers`);
+  if ((existing as { n: number }[])[0]!.n > 0) return null;
+  const actors = {} as Record<Role, LedgerActor>;
+  for (const u of DEMO_USERS) {
+    const user = await ctx.models.User.findOne({ where: { email: u.email } });
+    if (!user) return null;
+    actors[u.role] = { kind: 'user', id: user.id, role: user.role };
+  }
+  const clerk = { actor: actors.clerk };
+  const binA = await registerContainer(ctx, { containerType: 'bin', name: 'Cell 1 bin A (marked halves, whole specimens)', binHalf: 'A', stationCode: 'BINS-1' }, clerk);
+  const binB = await registerContainer(ctx, { containerType: 'bin', name: 'Cell 1 bin B', binHalf: 'B', stationCode: 'BINS-1' }, clerk);
+  const shelf = await registerContainer(ctx, { containerType: 'shelf', name: 'Store rack R1, shelf 2', stationCode: 'STORE-1' }, clerk);
+  const box = await registerContainer(ctx, { containerType: 'box', name: 'Box: Orrin Bay, December', containerCode: shelf }, clerk);
+  const bag = await registerContainer(ctx, { containerType: 'bag', name: 'Bag: LM-26-0101 heat H24-31877', containerCode: box }, clerk);
+
+  const specimensOf = async (orderNumber: string) => {
+    const [rows] = await ctx.sequelize.query(
+      `SELECT i.code FROM items i JOIN specimens sp ON sp.item_id = i.id JOIN samples s ON s.id = sp.sample_id
+         JOIN orders o ON o.id = s.order_id WHERE o.number = $1 ORDER BY sp.serial`,
+      { bind: [orderNumber] },
     );
-    let count = 0;
-    for (const s of samples as { id: number; code: string; heat_id: number; thickness_mm: string | null; heat_number: string; order_number: string; geometry_key: string; test_standard: string; specimens_per_heat: number }[]) {
-      const specimens = await registerSpecimens(
-        ctx,
-        {
-          sample: { id: s.id, code: s.code, heatId: s.heat_id, heatNumber: s.heat_number, orderNumber: s.order_number, thicknessMm: s.thickness_mm },
-          geometryKey: s.geometry_key,
-          testStandard: s.test_standard,
-          count: s.specimens_per_heat,
-          actor: { kind: 'user', id: user.id, role: user.role },
-        },
-        transaction,
-      );
-      count += specimens.length;
+    return (rows as { code: string }[]).map((r) => r.code);
+  };
+
+  // Times run forward from a few hours ago, a minute and a half per hand-off.
+  let clock = Date.now() - 6 * 3600_000;
+  let n = 0;
+  const step = async (role: Role, type: string, itemCode: string, more: { station?: string; container?: string; payload?: Record<string, unknown> } = {}) => {
+    clock += 90_000;
+    n += 1;
+    return recordEvent(
+      ctx,
+      {
+        idempotencyKey: `demo-${n}`,
+        type,
+        itemCode,
+        stationCode: more.station,
+        containerCode: more.container ?? null,
+        occurredAt: new Date(clock).toISOString(),
+        payload: more.payload ?? {},
+      },
+      { actor: actors[role] },
+    );
+  };
+
+  const [s1, s2, s3, s4] = await specimensOf('LM-26-0101');
+  for (const code of [s1, s2, s3, s4]) await step('machinist', 'cut', code!, { station: 'SAW-1' });
+  for (const code of [s1, s2, s3]) await step('technician', 'measured', code!, { station: 'GAUGE-1', payload: FLAT_40 });
+  await step('machinist', 'held', s4!, { station: 'SAW-1', payload: { reason: 'Saw burn along one edge; awaiting the lab manager’s decision.' } });
+  for (const [code, force] of [[s1, '243100'], [s2, '238700']] as const) {
+    const tested = await step('technician', 'tested', code!, { station: 'FRAME-1', payload: { fractured: true, maxForceN: force } });
+    const [halfA, halfB] = tested.halves;
+    await step('technician', 'binned', halfA!, { station: 'BINS-1', container: binA });
+    await step('technician', 'binned', halfB!, { station: 'BINS-1', container: binB });
+    if (code === s1) {
+      await step('clerk', 'retained', halfA!, { station: 'STORE-1', container: bag });
+      await step('clerk', 'retained', halfB!, { station: 'STORE-1', container: bag });
     }
-    return count;
-  });
-  return `Demo specimens registered: ${made}.`;
+  }
+  const [a1] = await specimensOf('LM-26-0103');
+  await step('machinist', 'cut', a1!, { station: 'SAW-1' });
+  await step('technician', 'measured', a1!, { station: 'GAUGE-1', payload: FLAT_12_5 });
+  return `Demo activity recorded: ${n} custody events.`;
+}
+
+/** Loads the whole demo lab into an empty database: reference data, people, specimens, activity. */
+export async function loadDemoLab(ctx: AppContext): Promise<string> {
+  const lines = [await seedDemoLab(ctx.sequelize)];
+  const signIns = await seedDemoUsers(ctx.sequelize);
+  const machinist = await ctx.models.User.findOne({ where: { role: 'machinist' } });
+  if (machinist) lines.push(await seedDemoSpecimens(ctx, machinist.id));
+  lines.push((await seedDemoActivity(ctx)) ?? '');
+  if (signIns) lines.push(signIns);
+  return lines.filter(Boolean).join('\n');
 }

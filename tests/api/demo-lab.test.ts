@@ -1,0 +1,43 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { verifyLedger } from '../../server/commands/verify-ledger';
+import { DEMO_USERS, loadDemoLab } from '../../server/demo/seed';
+import { signIn } from '../factories';
+import { createTestContext, type TestContext } from '../support';
+
+describe('the demo lab', () => {
+  let t: TestContext;
+  let printed: string;
+  beforeAll(async () => {
+    t = await createTestContext();
+    printed = await loadDemoLab(t.ctx);
+  });
+  afterAll(() => t.close());
+
+  it('loads people, specimens in several states, halves and containers through the ledger', async () => {
+    expect(printed).toContain('Demo sign-ins');
+    const [rows] = await t.sequelize.query(`SELECT kind, state, count(*)::int AS n FROM items GROUP BY 1, 2 ORDER BY 1, 2`);
+    const count = (kind: string, state: string) => (rows as { kind: string; state: string; n: number }[]).find((r) => r.kind === kind && r.state === state)?.n ?? 0;
+    expect(count('specimen', 'broken')).toBe(2);
+    expect(count('specimen', 'measured')).toBe(2);
+    expect(count('specimen', 'held')).toBe(1);
+    expect(count('specimen', 'registered')).toBe(1);
+    expect(count('half', 'retained')).toBe(2);
+    expect(count('half', 'binned')).toBe(2);
+    expect(count('container', 'active')).toBe(5);
+  });
+
+  it('leaves a ledger that verifies', async () => {
+    const result = await verifyLedger(t.sequelize);
+    expect(result.ok).toBe(true);
+    expect(result.eventsChecked).toBeGreaterThan(30);
+  });
+
+  it('lets each demo person sign in with the printed password', async () => {
+    for (const u of DEMO_USERS) {
+      const user = await t.ctx.models.User.findOne({ where: { email: u.email } });
+      const agent = await signIn(t, user!, u.password);
+      const me = await agent.get('/api/auth/me').expect(200);
+      expect(me.body.user.role).toBe(u.role);
+    }
+  });
+});
