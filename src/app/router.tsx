@@ -28,6 +28,7 @@ const router = createBrowserRouter([
     loader: requireSession,
     children: [
       { path: paths.home.path, lazy: () => import('./routes/home').then((m) => ({ Component: m.HomeRoute })) },
+      { path: paths.scan.path, lazy: () => import('./routes/scan').then((m) => ({ Component: m.ScanRoute })) },
       { path: paths.labels.path, lazy: () => import('./routes/labels').then((m) => ({ Component: m.LabelsRoute })) },
       { path: paths.account.path, lazy: () => import('./routes/account').then((m) => ({ Component: m.AccountRoute })) },
       { path: paths.users.path, lazy: () => import('./routes/users').then((m) => ({ Component: m.UsersRoute })) },

@@ -1,6 +1,7 @@
 /** Every route of the client, named once; links and the router both read these. */
 export const paths = {
   home: { path: '/', label: 'Floor' },
+  scan: { path: '/scan', label: 'Scan' },
   signIn: { path: '/sign-in', label: 'Sign in' },
   forgotPassword: { path: '/forgot-password', label: 'Forgot password' },
   setPassword: { path: '/set-password', label: 'Set password' },

@@ -12,6 +12,7 @@ export interface NavItem {
 /** The main navigation; screens add themselves here with the action they need. */
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: paths.home.path, label: paths.home.label, glyph: '◆' },
+  { to: paths.scan.path, label: paths.scan.label, glyph: '◎', requires: 'events.record' },
   { to: paths.labels.path, label: paths.labels.label, glyph: '⎙', requires: 'labels.print' },
   { to: paths.orders.path, label: paths.orders.label, glyph: '▤', requires: 'lab.read' },
   { to: paths.specimens.path, label: paths.specimens.label, glyph: '◧', requires: 'lab.read' },
