@@ -13,6 +13,7 @@ import { buildClientIfStale } from './lib/client-build';
 import { migrateUp } from './lib/migrate';
 import { freePort, provisionDatabase, roleUrl, startCluster, type PgCluster } from './lib/pg-cluster';
 import { ensureSystemPackages, NEEDS } from './lib/system-packages';
+import { startS3StandIn, type S3StandIn } from './lib/s3-standin';
 import { TEST_ROLES, TEST_TEMPLATE_DB } from '../tests/test-env';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -23,9 +24,12 @@ ensureSystemPackages([NEEDS.postgresql, NEEDS.chromium, NEEDS.popplerUtils], 'np
 
 const tmp = mkdtempSync(path.join(os.tmpdir(), 'halfmark-test-'));
 let cluster: PgCluster | null = null;
+let s3: S3StandIn | null = null;
 const cleanup = () => {
   cluster?.stop();
   cluster = null;
+  void s3?.close();
+  s3 = null;
   rmSync(tmp, { recursive: true, force: true });
 };
 for (const sig of ['SIGINT', 'SIGTERM'] as const) {
@@ -50,6 +54,8 @@ try {
   const roles = { database: TEST_TEMPLATE_DB, ...TEST_ROLES };
   await provisionDatabase(cluster.adminUrl(), roles);
   await migrateUp(roleUrl(cluster.port, TEST_TEMPLATE_DB, roles.owner), roleUrl(cluster.port, TEST_TEMPLATE_DB, roles.app));
+  // Attachments go to a stand-in S3 server keeping its objects in the run's temp folder.
+  s3 = await startS3StandIn({ directory: path.join(tmp, 's3'), bucket: 'halfmark-test' });
   // Browser tests need the built client; a run filtered to other tests skips the build.
   const filters = process.argv.slice(2).filter((a) => !a.startsWith('-'));
   if (filters.length === 0 || filters.some((f) => f.includes('e2e'))) buildClientIfStale(root);
@@ -67,6 +73,8 @@ try {
         HM_TEST_PG_PORT: String(cluster!.port),
         HM_TEST_ADMIN_URL: cluster!.adminUrl(),
         HM_TEST_PG_DIR: tmp,
+        HM_TEST_S3_ENDPOINT: s3!.endpoint,
+        HM_TEST_S3_KEY: s3!.env.S3_ACCESS_KEY_ID,
       },
     });
     child.on('exit', (code) => resolve(code ?? 1));

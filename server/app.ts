@@ -11,6 +11,7 @@ import { apiRouter } from './routes';
 import { authenticate } from './middleware/auth';
 import { defineModels, type Models } from './models/registry';
 import { createMailer, type Mailer } from './mail/mailer';
+import { createObjectStore, type ObjectStore } from './storage/object-store';
 
 /** What every part of the server may need: the configuration and the database. */
 export interface AppContext {
@@ -19,11 +20,13 @@ export interface AppContext {
   models: Models;
   /** Outgoing mail (a loopback stand-in when SMTP_HOST is not set). */
   mailer: Mailer;
+  /** Attachment storage (S3-compatible); null when none is configured. */
+  storage: ObjectStore | null;
 }
 
 /** Binds the models to the connection and bundles what the handlers need. */
 export function createContext(config: Config, sequelize: Sequelize): AppContext {
-  return { config, sequelize, models: defineModels(sequelize), mailer: createMailer(config) };
+  return { config, sequelize, models: defineModels(sequelize), mailer: createMailer(config), storage: createObjectStore(config) };
 }
 
 declare module 'express-serve-static-core' {

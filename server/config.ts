@@ -32,6 +32,18 @@ export const ConfigSchema = z.object({
    */
   LOGIN_RATE_LIMIT_MAX: z.coerce.number().int().min(1).optional(),
   LOGIN_RATE_LIMIT_WINDOW_SECONDS: z.coerce.number().int().min(1).default(60),
+  /**
+   * Object storage for attachments (any S3-compatible service). `npm start`, `npm run dev` and the
+   * tests run a stand-in on loopback and set these; when neither S3_ENDPOINT nor S3_BUCKET is set, uploads
+   * answer 503.
+   */
+  S3_ENDPOINT: z.string().url().optional(),
+  S3_BUCKET: z.string().min(3).max(63).optional(),
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  /** Path-style URLs (bucket in the path): what stand-ins and most S3-compatible stores want. */
+  S3_FORCE_PATH_STYLE: z.enum(['true', 'false']).default('true').transform((v) => v === 'true'),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -63,6 +63,15 @@ export async function createTestContext(): Promise<TestContext> {
     MIGRATION_DATABASE_URL: testUrl(database, 'owner'),
     SESSION_SECRET: TEST_SESSION_SECRET,
     PORT: '0',
+    // npm test runs one stand-in S3 server; each test file gets its own bucket.
+    ...(process.env.HM_TEST_S3_ENDPOINT
+      ? {
+          S3_ENDPOINT: process.env.HM_TEST_S3_ENDPOINT,
+          S3_BUCKET: database.replace(/_/g, '-'),
+          S3_ACCESS_KEY_ID: process.env.HM_TEST_S3_KEY,
+          S3_SECRET_ACCESS_KEY: process.env.HM_TEST_S3_KEY,
+        }
+      : {}),
   });
   const sequelize = createSequelize(config.DATABASE_URL, { poolMax: 8 });
   const owner = createSequelize(testUrl(database, 'owner'), { poolMax: 2 });
@@ -75,6 +84,7 @@ export async function createTestContext(): Promise<TestContext> {
     owner,
     database,
     close: async () => {
+      ctx.storage?.close();
       await sequelize.close();
       await owner.close();
       await dropTestDatabase(database);

@@ -21,6 +21,10 @@ import { disposalsRouter } from './disposals/router';
 import { resultsRouter } from './results/router';
 import { specificationsRouter } from './specifications/router';
 import { reportsRouter } from './reports/router';
+import { traceRouter } from './trace/router';
+import { attachmentsRouter } from './attachments/router';
+import { searchRouter } from './search/router';
+import { anomaliesRouter } from './anomalies/router';
 
 /** Mounts every resource router under /api. */
 export function apiRouter(): Router {
@@ -47,5 +51,9 @@ export function apiRouter(): Router {
   router.use('/results', resultsRouter());
   router.use('/specifications', specificationsRouter());
   router.use('/reports', reportsRouter());
+  router.use('/items', traceRouter());
+  router.use('/attachments', attachmentsRouter());
+  router.use('/search', searchRouter());
+  router.use('/anomalies', anomaliesRouter());
   return router;
 }
