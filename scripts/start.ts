@@ -61,7 +61,8 @@ try {
   console.log(db.cluster ? `Database: private PostgreSQL in ${db.cluster.dir} on 127.0.0.1:${db.cluster.port}` : 'Database: DATABASE_URL');
   console.log(mail ? `Mail: stand-in SMTP on ${mail.server.host}:${mail.server.port}; nothing is delivered, managers read it on the Outbox page (kept in ${mail.env.SMTP_OUTBOX_DIR})` : `Mail: SMTP via ${config.SMTP_HOST}:${config.SMTP_PORT}`);
   if (demo) console.log(demo);
-  if (demoUsers) console.log(demoUsers);
+  // The demo loader may already have printed the sign-ins while adding the people.
+  if (demoUsers && !demo?.includes(demoUsers)) console.log(demoUsers);
   console.log('Press Ctrl-C to stop.');
 } catch (err) {
   console.error(err instanceof ConfigError ? err.message : err);

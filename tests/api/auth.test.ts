@@ -116,3 +116,12 @@ describe('sign-in rate limit', () => {
     expect(unknown).toBeGreaterThan(known * 0.3);
   });
 });
+
+describe('README demo sign-ins', () => {
+  it('lists every demo account with its password, as the seed makes them', async () => {
+    const { readFileSync } = await import('node:fs');
+    const { DEMO_USERS } = await import('../../server/demo/seed');
+    const readme = readFileSync(new URL('../../README.md', import.meta.url), 'utf8');
+    for (const u of DEMO_USERS) expect(readme).toContain(`| \`${u.email}\` | \`${u.password}\` |`);
+  });
+});
