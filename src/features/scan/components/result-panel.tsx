@@ -3,6 +3,7 @@ import { StateBadge } from '../../../components/ui/state-badge';
 import type { ItemView } from '../api/types';
 import type { ScanResult } from '../results';
 import { OutcomeMark } from './outcome-mark';
+import { PrintLabelsLink } from '../../labels/components/print-labels-link';
 
 const TONE: Record<ScanResult['outcome'], string> = {
   accepted: 'bg-good-100 text-good-700 ring-good-500',
@@ -94,6 +95,11 @@ export function ResultPanel({ result, details, feedbackName }: { result: ScanRes
         >
           Print half-B label · <span className="ml-1 font-mono">{result.halfB}</span>
         </a>
+      ) : null}
+      {result.item?.kind === 'container' && result.code && result.outcome !== 'refused' ? (
+        <div className="mt-3">
+          <PrintLabelsLink kind="container" codes={[result.code]} label="Print container label" size="lg" />
+        </div>
       ) : null}
     </section>
   );
