@@ -25,4 +25,12 @@ export const paths = {
   sample: { path: '/samples/:id', label: 'Sample', href: (id: number) => `/samples/${id}` },
   specimens: { path: '/specimens', label: 'Specimens' },
   specimen: { path: '/specimens/:idOrCode', label: 'Specimen', href: (code: string) => `/specimens/${encodeURIComponent(code)}` },
+  store: { path: '/store', label: 'Store' },
+  retention: { path: '/retention', label: 'Retention' },
+  holds: { path: '/holds', label: 'Holds' },
+  disposals: {
+    path: '/disposals',
+    label: 'Disposals',
+    href: (codes: readonly string[] = []) => (codes.length > 0 ? `/disposals?codes=${codes.map(encodeURIComponent).join(',')}` : '/disposals'),
+  },
 } as const;

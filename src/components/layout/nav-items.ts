@@ -21,6 +21,9 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: paths.customers.path, label: paths.customers.label, glyph: '◎', requires: 'lab.read' },
   { to: paths.users.path, label: paths.users.label, glyph: '☷', requires: 'users.read' },
   { to: paths.stations.path, label: paths.stations.label, glyph: '▣', requires: 'stations.write' },
+  { to: paths.store.path, label: paths.store.label, glyph: '▭', requires: 'lab.read' },
+  { to: paths.retention.path, label: paths.retention.label, glyph: '◷', requires: 'lab.read' },
+  { to: paths.disposals.path, label: paths.disposals.label, glyph: '⌫', requires: 'disposals.write' },
   { to: paths.outbox.path, label: paths.outbox.label, glyph: '✉', requires: 'outbox.read' },
 ];
 
