@@ -19,6 +19,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: paths.heats.path, label: paths.heats.label, glyph: '♨', requires: 'lab.read' },
   { to: paths.samples.path, label: paths.samples.label, glyph: '▱', requires: 'lab.read' },
   { to: paths.customers.path, label: paths.customers.label, glyph: '◎', requires: 'lab.read' },
+  { to: paths.results.path, label: paths.results.label, glyph: '∿', requires: 'lab.read' },
+  { to: paths.specifications.path, label: paths.specifications.label, glyph: '≥', requires: 'lab.read' },
   { to: paths.users.path, label: paths.users.label, glyph: '☷', requires: 'users.read' },
   { to: paths.stations.path, label: paths.stations.label, glyph: '▣', requires: 'stations.write' },
   { to: paths.store.path, label: paths.store.label, glyph: '▭', requires: 'lab.read' },
