@@ -53,6 +53,8 @@ const router = createBrowserRouter([
       { path: paths.resultsOrder.path, lazy: () => import('./routes/results-order').then((m) => ({ Component: m.ResultsOrderRoute })) },
       { path: paths.resultsSpecimen.path, lazy: () => import('./routes/results-specimen').then((m) => ({ Component: m.ResultsSpecimenRoute })) },
       { path: paths.specifications.path, lazy: () => import('./routes/specifications').then((m) => ({ Component: m.SpecificationsRoute })) },
+      { path: paths.trace.path, lazy: () => import('./routes/trace').then((m) => ({ Component: m.TraceRoute })) },
+      { path: paths.anomalies.path, lazy: () => import('./routes/anomalies').then((m) => ({ Component: m.AnomaliesRoute })) },
       { path: '*', lazy: () => import('./routes/not-found').then((m) => ({ Component: m.NotFoundRoute })) },
     ],
   },

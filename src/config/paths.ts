@@ -37,4 +37,6 @@ export const paths = {
   resultsOrder: { path: '/results/orders/:id', label: 'Order results', href: (id: number) => `/results/orders/${id}` },
   resultsSpecimen: { path: '/results/specimens/:code', label: 'Specimen results', href: (code: string) => `/results/specimens/${encodeURIComponent(code)}` },
   specifications: { path: '/specifications', label: 'Specifications' },
+  trace: { path: '/trace/:code?', label: 'Trace', href: (code: string) => `/trace/${encodeURIComponent(code)}` },
+  anomalies: { path: '/anomalies', label: 'Anomalies' },
 } as const;

@@ -13,6 +13,8 @@ export interface NavItem {
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: paths.home.path, label: paths.home.label, glyph: '◆' },
   { to: paths.scan.path, label: paths.scan.label, glyph: '◎', requires: 'events.record' },
+  { to: '/trace', label: paths.trace.label, glyph: '⇠', requires: 'lab.read' },
+  { to: paths.anomalies.path, label: paths.anomalies.label, glyph: '△', requires: 'lab.read' },
   { to: paths.labels.path, label: paths.labels.label, glyph: '⎙', requires: 'labels.print' },
   { to: paths.orders.path, label: paths.orders.label, glyph: '▤', requires: 'lab.read' },
   { to: paths.specimens.path, label: paths.specimens.label, glyph: '◧', requires: 'lab.read' },
