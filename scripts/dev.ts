@@ -10,13 +10,16 @@ import { listen } from '../server/index';
 import { prepareDatabase } from './lib/embedded-db';
 import { migrateUp } from './lib/migrate';
 import { loadDemoIfEmpty } from './lib/demo';
+import { startObjectStandIn } from './lib/s3-standin';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const dataDir = path.resolve(root, process.env.DATA_DIR ?? '.data');
 
 const db = await prepareDatabase(dataDir);
+const objects = await startObjectStandIn(dataDir);
 const config = loadConfig({
   ...process.env,
+  ...objects?.env,
   NODE_ENV: 'development',
   DATABASE_URL: db.appUrl,
   MIGRATION_DATABASE_URL: db.ownerUrl,
@@ -40,6 +43,7 @@ async function stop(): Promise<void> {
   stopping = true;
   vite.kill('SIGTERM');
   await api.close();
+  await objects?.close();
   db.cluster?.stop();
   process.exit(0);
 }

@@ -13,6 +13,7 @@ import { migrateUp } from './lib/migrate';
 import { loadDemoIfEmpty } from './lib/demo';
 import { loadDemoUsers } from './lib/demo-users';
 import { startMailStandIn } from './lib/smtp-stand-in';
+import { startObjectStandIn, type S3StandIn } from './lib/s3-standin';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const dataDir = path.resolve(root, process.env.DATA_DIR ?? '.data');
@@ -21,6 +22,7 @@ const started = Date.now();
 let db: PreparedDatabase | null = null;
 let running: RunningServer | null = null;
 let mail: Awaited<ReturnType<typeof startMailStandIn>> = null;
+let objects: S3StandIn | null = null;
 let stopping = false;
 
 async function stop(signal: string): Promise<void> {
@@ -30,6 +32,7 @@ async function stop(signal: string): Promise<void> {
   try {
     await running?.close();
     await mail?.server.close();
+    await objects?.close();
   } finally {
     db?.cluster?.stop();
     console.log('Stopped.');
@@ -42,10 +45,12 @@ process.on('SIGTERM', () => void stop('SIGTERM'));
 try {
   db = await prepareDatabase(dataDir);
   mail = await startMailStandIn(dataDir);
+  objects = await startObjectStandIn(dataDir);
   const config = loadConfig({
     NODE_ENV: 'production',
     ...process.env,
     ...mail?.env,
+    ...objects?.env,
     DATABASE_URL: db.appUrl,
     MIGRATION_DATABASE_URL: db.ownerUrl,
     SESSION_SECRET: db.sessionSecret,
@@ -60,6 +65,7 @@ try {
   console.log(`\nHalfmark is running at ${running.url}  (ready in ${((Date.now() - started) / 1000).toFixed(1)} s)`);
   console.log(db.cluster ? `Database: private PostgreSQL in ${db.cluster.dir} on 127.0.0.1:${db.cluster.port}` : 'Database: DATABASE_URL');
   console.log(mail ? `Mail: stand-in SMTP on ${mail.server.host}:${mail.server.port}; nothing is delivered, managers read it on the Outbox page (kept in ${mail.env.SMTP_OUTBOX_DIR})` : `Mail: SMTP via ${config.SMTP_HOST}:${config.SMTP_PORT}`);
+  console.log(objects ? `Attachments: stand-in S3 on ${objects.endpoint}, objects kept in ${objects.directory}` : `Attachments: S3 bucket ${config.S3_BUCKET ?? 'halfmark-attachments'}`);
   if (demo) console.log(demo);
   // The demo loader may already have printed the sign-ins while adding the people.
   if (demoUsers && !demo?.includes(demoUsers)) console.log(demoUsers);

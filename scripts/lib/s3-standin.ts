@@ -6,6 +6,7 @@
 import { mkdirSync } from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import { createRequire } from 'node:module';
+import path from 'node:path';
 
 interface S3rverOptions {
   address: string;
@@ -67,4 +68,13 @@ export async function startS3StandIn(opts: { directory: string; bucket?: string;
     },
     close: () => server.close(),
   };
+}
+
+/**
+ * For `npm start` and `npm run dev`: the stand-in with its objects in `<dataDir>/objects`, unless
+ * the environment already names object storage (S3_ENDPOINT or S3_BUCKET), then null.
+ */
+export async function startObjectStandIn(dataDir: string, env: NodeJS.ProcessEnv = process.env): Promise<S3StandIn | null> {
+  if (env.S3_ENDPOINT || env.S3_BUCKET) return null;
+  return startS3StandIn({ directory: path.join(dataDir, 'objects') });
 }
