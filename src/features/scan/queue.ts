@@ -1,6 +1,6 @@
 /**
- * Scans kept on the device until the ledger has them. Every scan is written here before it is
- * sent and removed once the server answers, so a lost connection or a closed tab loses nothing;
+ * Scans kept on the device until the ledger has them. Every scan is written here as it is sent
+ * and removed once the server's answer is on screen, so a lost connection or a closed tab loses nothing;
  * the idempotency key made at scan time means a resend is never recorded twice.
  */
 import { openDB, type DBSchema, type IDBPDatabase } from 'idb';

@@ -1,7 +1,7 @@
 /**
  * The scanner's brain: takes a code from any way in (wedge, camera, typing), checks it, decides
  * what the chosen action needs (a container first, readings, broken or not), records the event
- * (kept on the device first, so nothing is lost offline) and says what happened.
+ * (kept on the device while it is sent, so nothing is lost offline) and says what happened.
  */
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { parseCode, type ParsedCodeOk } from '../../../shared/domain/codes';
@@ -114,7 +114,9 @@ export function useScanner() {
         ...(setup.action?.needsContainer && setup.container ? { containerCode: setup.container.code } : {}),
       };
       const scan: QueuedScan = { key: event.idempotencyKey, event, operatorToken: op?.token ?? null, operatorName: op?.operator.name ?? null, label: scanAction(type)?.label ?? type };
-      await keepScan(scan);
+      // Kept on the device while it is sent: the write is started first and always finishes before
+      // the device forgets the scan, or before it says "kept".
+      const kept = keepScan(scan);
       const keptResult = () =>
         result({
           outcome: 'kept',
@@ -124,26 +126,35 @@ export function useScanner() {
           scannedAt,
         });
       if (!navigator.onLine) {
+        await kept;
         show(keptResult());
         void refreshPending();
         return;
       }
       inFlight.add(scan.key);
       const answer = await call<RecordedEvent>('/events', { json: event, operatorToken: scan.operatorToken });
-      inFlight.delete(scan.key);
       if (answer.status === 0) {
+        await kept;
+        inFlight.delete(scan.key);
         show(keptResult());
         void refreshPending();
         return;
       }
-      await forgetScan(scan.key);
+      // The ledger has judged it; the device lets it go once the answer is on screen.
+      const forget = () =>
+        void kept.then(() => forgetScan(scan.key)).then(() => {
+          inFlight.delete(scan.key);
+          return refreshPending();
+        });
       if (!answer.ok && answer.status === 401 && scan.operatorToken) {
         saveOperator(null);
         setOperatorState(null);
         show(result({ outcome: 'refused', title: 'Badge in again', code: parsed.code, message: `${answer.error.message} Nothing was recorded.`, scannedAt }));
+        forget();
         return;
       }
       show(resultOfAnswer(type, parsed.code, parsed.kind === 'badge' ? 'specimen' : parsed.kind, answer, scannedAt));
+      forget();
       if (answer.ok || answer.status === 409) void describe(parsed.code);
     },
     [describe, refreshPending, show],
