@@ -93,3 +93,15 @@ export async function createInstrumentToken(
   });
   return { token, row, station };
 }
+
+/**
+ * Signs a user in through the sign-in screen of a browser page (for browser tests of screens
+ * behind the session guard); lands on `next` afterwards.
+ */
+export async function signInPage(page: import('playwright-core').Page, user: User, next = '/', password = TEST_PASSWORD): Promise<void> {
+  await page.goto(next === '/' ? '/sign-in' : `/sign-in?next=${encodeURIComponent(next)}`);
+  await page.getByLabel('E-mail').fill(user.email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((u) => u.pathname + u.search === next, { timeout: 30_000 });
+}
