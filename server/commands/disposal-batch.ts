@@ -250,11 +250,11 @@ export async function createBatch(ctx: AppContext, body: BatchCreate, actor: Led
         occurredAt,
         payload: {
           batch: batchNumber,
-          signature: { signer: signature.signer, meaning: signature.meaning, signedAt: signature.signedAt },
           ...(body.recipient ? { recipient: body.recipient } : {}),
         },
       })),
-      { actor, transaction },
+      // The signature goes in the event's own hashed signature member, as for every signed action.
+      { actor, transaction, signature: { signer: signature.signer, meaning: signature.meaning, signedAt: signature.signedAt } },
     );
     const refusedOutcome = outcomes.find((o) => !isRecorded(o));
     if (refusedOutcome && !isRecorded(refusedOutcome)) throw refusalError(refusedOutcome);

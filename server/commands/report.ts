@@ -283,10 +283,14 @@ export async function issueReport(
             results: Number(results.get(String(r.item_id))?.id),
             verdict,
             ...(previous ? { supersedes: previous.number } : {}),
-            signature: signatureRecord,
           },
         },
-        { actor: { kind: 'user', id: user.id, role: user.role }, transaction },
+        {
+          actor: { kind: 'user', id: user.id, role: user.role },
+          transaction,
+          // The signature goes in the event's own hashed signature member, as for every signed action.
+          signature: { signer: signature.signer, meaning: signature.meaning, signedAt: signature.signedAt },
+        },
       );
       events.push({ item: recorded.event.item, seq: recorded.event.seq, hash: recorded.event.hash });
     }

@@ -160,13 +160,14 @@ describe('POST /api/disposals', () => {
     expect(res.body.items.map((i: { code: string }) => i.code)).toEqual(disposed);
     expect(await disposedCount()).toBe(before + 3);
     for (const code of disposed) expect(await stateOf(t, code)).toBe('disposed');
-    // Each event carries the batch and the signature (signer, meaning, time) inside its hashed payload.
-    const events = await t.owner.query<{ item_code: string; payload: { batch: string; signature: { signer: number; meaning: string } }; hash: string }>(
-      `SELECT item_code, payload, hash FROM custody_events WHERE type = 'disposed' AND payload->>'batch' = $1 ORDER BY id`,
+    // Each event carries the batch in its payload and the signature (signer, meaning, time) in the
+    // event's own hashed signature member.
+    const events = await t.owner.query<{ item_code: string; signature: { signer: number; meaning: string; signedAt: string }; hash: string }>(
+      `SELECT item_code, signature, hash FROM custody_events WHERE type = 'disposed' AND payload->>'batch' = $1 ORDER BY id`,
       { bind: [certificateNumber], type: QueryTypes.SELECT },
     );
     expect(events.map((e) => e.item_code)).toEqual(disposed);
-    for (const e of events) expect(e.payload.signature).toMatchObject({ signer: clerk.user.id, meaning: 'disposal' });
+    for (const e of events) expect(e.signature).toMatchObject({ signer: clerk.user.id, meaning: 'disposal' });
     expect(res.body.items.map((i: { eventHash: string }) => i.eventHash)).toEqual(events.map((e) => e.hash));
     // The ledger still verifies after the batch.
     const verify = await clerk.get('/api/ledger/verify').expect(200);

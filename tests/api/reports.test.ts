@@ -147,8 +147,8 @@ function pdfText(pdf: Buffer): string {
   return execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
 }
 
-async function eventsOf(code: string): Promise<{ type: string; payload: Record<string, unknown>; seq: number }[]> {
-  return t.owner.query(`SELECT type, payload, seq FROM custody_events WHERE item_code = $1 ORDER BY seq`, { bind: [code], type: QueryTypes.SELECT });
+async function eventsOf(code: string): Promise<{ type: string; payload: Record<string, unknown>; signature: Record<string, unknown> | null; seq: number }[]> {
+  return t.owner.query(`SELECT type, payload, signature, seq FROM custody_events WHERE item_code = $1 ORDER BY seq`, { bind: [code], type: QueryTypes.SELECT });
 }
 
 describe('POST /api/reports', () => {
@@ -190,8 +190,9 @@ describe('POST /api/reports', () => {
         category: 'test_report',
         reportNumber: issued.report.number,
         verdict: 'conforms',
-        signature: { signer: manager.user.id, meaning: 'report', name: manager.user.name },
       });
+      // The signature sits in the event's own hashed signature member, as for every signed action.
+      expect(last?.signature).toMatchObject({ signer: manager.user.id, meaning: 'report' });
     }
     const [row] = await t.owner.query<{ report_issued_at: Date; status: string }>('SELECT report_issued_at, status FROM orders WHERE id = $1', {
       bind: [orderId],
