@@ -28,7 +28,7 @@ export interface Life {
 
 /**
  * Records registered → cut → measured → tested (fractured) → half A and B binned → half A
- * retained in a bag on a shelf, each event through recordEvent, one minute apart in device time.
+ * retained in a bag on a shelf, each event through recordEvent, a few seconds apart in device time.
  */
 export async function buildLife(t: TestContext, opts: { tag?: string } = {}): Promise<Life> {
   const tag = opts.tag ?? randomUUID().slice(0, 4).toUpperCase();
@@ -46,9 +46,10 @@ export async function buildLife(t: TestContext, opts: { tag?: string } = {}): Pr
   const shelf = await createContainer(t, actor, 'shelf');
   const bag = await createContainer(t, actor, 'bag', { inside: shelf });
   const specimen = await createSpecimen(t, actor, sampleId);
-  const start = Date.now() - 60 * 60_000;
-  let minute = 0;
-  const at = () => new Date(start + 60_000 * ++minute).toISOString();
+  // Device times a few seconds apart from now on: after the registration, never far ahead of the server.
+  const start = Date.now();
+  let step = 0;
+  const at = () => new Date(start + 5_000 * ++step).toISOString();
   const record = async (type: string, itemCode: string, extra: Record<string, unknown> = {}) =>
     recordEvent(t.ctx, { idempotencyKey: randomUUID(), type, itemCode, occurredAt: at(), ...extra }, { actor });
   await record('cut', specimen, { stationCode: stations.saw });
