@@ -1,8 +1,7 @@
 import type { Request, Response } from 'express';
 import { QueryTypes } from 'sequelize';
-import { containerCode } from '../../../shared/domain/codes';
 import { ContainerCreateSchema, ContainerListQuerySchema } from '../../../shared/schemas/containers';
-import { registerItem } from '../../commands/record-event';
+import { registerContainer } from '../../commands/register-container';
 import { notFound, unauthorized, unprocessable } from '../../errors';
 import { codeFromParam, containerChain } from '../../ledger/items';
 import { parsed } from '../../middleware/validate';
@@ -43,11 +42,13 @@ async function containerDetail(req: Request, code: string) {
   return { ...rest, id, location, items: contents };
 }
 
-/** POST /api/containers: registers a container and records its `registered` event. */
+/**
+ * POST /api/containers: registers a container and records its `registered` event (through the
+ * same command the demo lab uses); a repeated idempotency key answers the container it made.
+ */
 export async function createContainer(req: Request, res: Response): Promise<void> {
   const body = parsed(req, ContainerCreateSchema);
   if (!req.actor) throw unauthorized();
-  const actor = req.actor;
   if (body.idempotencyKey) {
     const [seen] = await req.ctx.sequelize.query<{ item_code: string }>(
       `SELECT item_code FROM custody_events WHERE idempotency_key = $1 AND type = 'registered'`,
@@ -58,31 +59,7 @@ export async function createContainer(req: Request, res: Response): Promise<void
       return;
     }
   }
-  const code = await req.ctx.sequelize.transaction(async (transaction) => {
-    const [next] = await req.ctx.sequelize.query<{ serial: string }>(`SELECT nextval('container_serial_seq') AS serial`, {
-      transaction,
-      type: QueryTypes.SELECT,
-    });
-    const serial = Number(next?.serial);
-    const newCode = containerCode(serial);
-    const { itemId } = await registerItem(
-      req.ctx,
-      {
-        kind: 'container',
-        code: newCode,
-        stationCode: body.stationCode,
-        containerCode: body.containerCode ?? null,
-        idempotencyKey: body.idempotencyKey,
-        payload: { containerType: body.containerType, name: body.name, ...(body.binHalf ? { binHalf: body.binHalf } : {}) },
-      },
-      { actor, transaction },
-    );
-    await req.ctx.sequelize.query(
-      'INSERT INTO containers (item_id, serial, container_type, name, bin_half) VALUES ($1, $2, $3, $4, $5)',
-      { bind: [itemId, serial, body.containerType, body.name, body.binHalf ?? null], transaction },
-    );
-    return newCode;
-  });
+  const code = await registerContainer(req.ctx, body, { actor: req.actor });
   res.status(201).json({ container: await containerDetail(req, code), replayed: false });
 }
 
