@@ -120,20 +120,16 @@ interface BatchRow {
   document_sha256: string;
 }
 
-const BATCH_SELECT = `
-  SELECT b.id, b.number, b.kind, o.number AS order_number, c.name AS customer_name, b.signer_id, u.name AS signer_name,
-         u.email AS signer_email, b.meaning, b.statement, b.signed_at, b.recorded_at, b.recipient, b.note, b.document_sha256
+const BATCH_FROM = `
     FROM disposal_batches b JOIN users u ON u.id = b.signer_id
     LEFT JOIN orders o ON o.id = b.order_id LEFT JOIN customers c ON c.id = b.customer_id`;
 
-/** A batch as the API shows it, by its number. */
-export async function readBatch(ctx: AppContext, number: string, transaction?: Transaction): Promise<BatchView> {
-  const [row] = await ctx.sequelize.query<BatchRow>(`${BATCH_SELECT} WHERE b.number = $1`, { bind: [number], type: QueryTypes.SELECT, transaction });
-  if (!row) throw notFound(`No disposal or return batch has the number ${number}.`);
-  const items = await ctx.sequelize.query<{ code: string; kind: string; specimen_code: string | null; order_number: string; heat_number: string; event_hash: string }>(
-    'SELECT code, kind, specimen_code, order_number, heat_number, event_hash FROM disposal_batch_items WHERE batch_id = $1 ORDER BY position',
-    { bind: [row.id], type: QueryTypes.SELECT, transaction },
-  );
+const BATCH_SELECT = `
+  SELECT b.id, b.number, b.kind, o.number AS order_number, c.name AS customer_name, b.signer_id, u.name AS signer_name,
+         u.email AS signer_email, b.meaning, b.statement, b.signed_at, b.recorded_at, b.recipient, b.note, b.document_sha256${BATCH_FROM}`;
+
+/** A batch row as the API shows it, without its items: one shape for the batch page and the list. */
+function presentBatch(row: BatchRow): Omit<BatchView, 'items'> {
   return {
     id: row.id,
     number: row.number,
@@ -149,6 +145,19 @@ export async function readBatch(ctx: AppContext, number: string, transaction?: T
     note: row.note,
     documentSha256: row.document_sha256,
     documentUrl: `/api/disposals/${encodeURIComponent(row.number)}/document.pdf`,
+  };
+}
+
+/** A batch as the API shows it, by its number. */
+export async function readBatch(ctx: AppContext, number: string, transaction?: Transaction): Promise<BatchView> {
+  const [row] = await ctx.sequelize.query<BatchRow>(`${BATCH_SELECT} WHERE b.number = $1`, { bind: [number], type: QueryTypes.SELECT, transaction });
+  if (!row) throw notFound(`No disposal or return batch has the number ${number}.`);
+  const items = await ctx.sequelize.query<{ code: string; kind: string; specimen_code: string | null; order_number: string; heat_number: string; event_hash: string }>(
+    'SELECT code, kind, specimen_code, order_number, heat_number, event_hash FROM disposal_batch_items WHERE batch_id = $1 ORDER BY position',
+    { bind: [row.id], type: QueryTypes.SELECT, transaction },
+  );
+  return {
+    ...presentBatch(row),
     items: items.map((i) => ({ code: i.code, kind: i.kind, specimen: i.specimen_code, order: i.order_number, heat: i.heat_number, eventHash: i.event_hash })),
   };
 }
@@ -171,31 +180,14 @@ export async function listBatches(
   }
   const clause = where.length ? `WHERE ${where.join(' AND ')}` : '';
   const order = `${query.sort.replace(/^-/, '') === 'number' ? 'b.number' : 'b.recorded_at'} ${query.sort.startsWith('-') ? 'DESC' : 'ASC'}, b.id`;
-  const from = `FROM disposal_batches b JOIN users u ON u.id = b.signer_id LEFT JOIN orders o ON o.id = b.order_id LEFT JOIN customers c ON c.id = b.customer_id`;
-  const [count] = await ctx.sequelize.query<{ n: number }>(`SELECT count(*)::integer AS n ${from} ${clause}`, { bind, type: QueryTypes.SELECT });
+  const [count] = await ctx.sequelize.query<{ n: number }>(`SELECT count(*)::integer AS n ${BATCH_FROM} ${clause}`, { bind, type: QueryTypes.SELECT });
   const rows = await ctx.sequelize.query<BatchRow & { item_count: number }>(
     `${BATCH_SELECT.replace('b.document_sha256', 'b.document_sha256, b.item_count')} ${clause} ORDER BY ${order} LIMIT $${bind.length + 1} OFFSET $${bind.length + 2}`,
     { bind: [...bind, query.pageSize, (query.page - 1) * query.pageSize], type: QueryTypes.SELECT },
   );
   return {
     total: count?.n ?? 0,
-    items: rows.map((row) => ({
-      id: row.id,
-      number: row.number,
-      kind: row.kind,
-      order: row.order_number,
-      customer: row.customer_name,
-      signer: { id: row.signer_id, name: row.signer_name, email: row.signer_email },
-      meaning: row.meaning,
-      statement: row.statement,
-      signedAt: new Date(row.signed_at).toISOString(),
-      recordedAt: new Date(row.recorded_at).toISOString(),
-      recipient: row.recipient,
-      note: row.note,
-      documentSha256: row.document_sha256,
-      documentUrl: `/api/disposals/${encodeURIComponent(row.number)}/document.pdf`,
-      itemCount: row.item_count,
-    })),
+    items: rows.map((row) => ({ ...presentBatch(row), itemCount: row.item_count })),
   };
 }
 
