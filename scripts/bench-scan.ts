@@ -134,11 +134,11 @@ export async function wedgeScan(page: Page, code: string): Promise<{ outcome: st
   await page.keyboard.type(code);
   await page.keyboard.press('Enter');
   await page.waitForFunction(
-    (prev) => {
+    ([prev, scanned]) => {
       const el = document.querySelector('[data-testid="scan-result"]');
-      return !!el && el.getAttribute('data-serial') !== prev && el.hasAttribute('data-latency-ms');
+      return !!el && el.getAttribute('data-serial') !== prev && el.getAttribute('data-code') === scanned && el.hasAttribute('data-latency-ms');
     },
-    before,
+    [before, code.toUpperCase()] as const,
   );
   return {
     outcome: (await result.getAttribute('data-outcome')) ?? '',

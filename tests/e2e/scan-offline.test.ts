@@ -61,7 +61,7 @@ describe('scanning offline', { timeout: 180_000 }, () => {
     await context.setOffline(false);
     const second = await context.newPage();
     await second.goto('/scan');
-    await second.getByTestId('scan-screen').waitFor();
+    await second.getByTestId('scan-screen').waitFor({ timeout: 60_000 });
     await poll(() => second.getByTestId('pending-count').textContent()).toBe('3');
     await second.getByRole('button', { name: /^Cut\b/ }).click();
     for (const code of codes.slice(3)) expect(await wedgeScan(second, code)).toMatchObject({ outcome: 'kept' });

@@ -5,7 +5,7 @@
 import { TRANSITIONS, ITEM_KINDS, type EventType, type ItemKind } from '../../../shared/domain/ledger/state-machine';
 
 /** Which reminder a hazardous action shows beside it. */
-export type SafetyNote = 'saw' | 'frame';
+export type SafetyNote = 'saw' | 'frame' | 'chamber';
 
 /** One action the scanner offers. */
 export interface ScanAction {
@@ -45,8 +45,8 @@ const a = (
 /** The actions on the scanner, in the order of a specimen's life. */
 export const SCAN_ACTIONS: readonly ScanAction[] = [
   a('cut', 'Cut', 'Cut', 'Cut from the sample at the saw', '✂', { safety: 'saw' }),
-  a('conditioning_started', 'Into conditioning', 'Into conditioning', 'Placed in the conditioning chamber', '◔'),
-  a('conditioned', 'Out of conditioning', 'Conditioned', 'Taken out after its conditioning time', '◕'),
+  a('conditioning_started', 'Into conditioning', 'Into conditioning', 'Placed in the conditioning chamber', '◔', { safety: 'chamber' }),
+  a('conditioned', 'Out of conditioning', 'Conditioned', 'Taken out after its conditioning time', '◕', { safety: 'chamber' }),
   a('measured', 'Measure', 'Measured', 'Three readings per dimension; area computed', '⌀'),
   a('tested', 'Tested', 'Tested', 'Pulled on the frame: broken or not', '⇅', { safety: 'frame' }),
   a('binned', 'Into a bin', 'Binned', 'Scan the bin, then the pieces', '▭'),
@@ -72,8 +72,9 @@ export function kindsFor(type: EventType): ItemKind[] {
   return ITEM_KINDS.filter((kind) => TRANSITIONS[kind][type] !== undefined);
 }
 
-/** The safety reminder shown beside saw and frame actions; it defers to the lab's own procedures. */
+/** The safety reminder shown beside saw, frame and chamber actions; it defers to the lab's own procedures. */
 export const SAFETY_TEXT: Record<SafetyNote, string> = {
   saw: "Follow your lab's procedures for the saw; Halfmark does not control machines.",
   frame: "Follow your lab's procedures for the frame; Halfmark does not control machines.",
+  chamber: "Follow your lab's procedures for the conditioning chamber; Halfmark does not control machines.",
 };

@@ -55,6 +55,7 @@ const FLAG_WORDS: Record<string, string> = { out_of_tolerance: 'Out of tolerance
  * @param code - The item's display code.
  * @param kind - The item's kind, as parsed from its code.
  * @param answer - The server's answer.
+ * @param scannedAt - When the scan's last key arrived, to time the answer.
  */
 export function resultOfAnswer(type: EventType, code: string, kind: ItemKind, answer: Answer<RecordedEvent>, scannedAt: number | null): ScanResult {
   const done = scanAction(type)?.done ?? eventWords(type);

@@ -2,10 +2,12 @@
  * Sending kept scans to the ledger through POST /api/events/batch, grouped by the operator they
  * belong to, and saying what happened to each.
  */
+import { parseCode } from '../../../shared/domain/codes';
 import { MAX_BATCH_EVENTS } from '../../../shared/schemas/events';
 import { call } from './api/http';
 import type { BatchAnswer } from './api/types';
 import { forgetScan, markScan, pendingScans, type QueuedScan } from './queue';
+import { resultOfAnswer } from './results';
 
 /** A scan the ledger refused while syncing, with its reason. */
 export interface SyncRefusal {
@@ -55,7 +57,12 @@ async function sendGroup(scans: QueuedScan[], token: string | null, report: Sync
         if (result.replayed) report.replayed++;
         else report.recorded++;
       } else {
-        report.refused.push({ scan, status: result.status, message: result.error.message });
+        // The same plain words as a live refusal: the state, and what may come next.
+        const parsed = parseCode(scan.event.itemCode);
+        const kind = parsed.ok && parsed.kind !== 'badge' ? parsed.kind : 'specimen';
+        const words = resultOfAnswer(scan.event.type, scan.event.itemCode, kind, { ok: false, status: result.status, error: result.error }, null);
+        const next = words.next.length > 0 ? ` What may come next: ${words.next.join(', ')}.` : '';
+        report.refused.push({ scan, status: result.status, message: `${words.message}${next}` });
       }
       // Recorded, replayed or refused: the ledger has judged it, so the device lets it go.
       await forgetScan(scan.key);

@@ -302,12 +302,17 @@ export function useScanner() {
     try {
       const r = await syncKeptScans();
       setReport(r);
-      if (r.sent > 0 || r.problem) signal(r.refused.length > 0 || r.problem ? 'refused' : 'accepted', live.current.sound);
+      if (r.sent > 0 || r.problem) {
+        const outcome = r.refused.length > 0 || r.problem ? 'refused' : 'accepted';
+        const title = r.sent > 0 ? 'Synced' : 'Not synced';
+        const summary = `${r.recorded} recorded, ${r.replayed} already there, ${r.refused.length} refused${r.stillKept > 0 ? `, ${r.stillKept} still waiting` : ''}. See the sync report below.`;
+        show(result({ outcome, title, code: null, message: summary }));
+      }
     } finally {
       setSyncing(false);
       await refreshPending();
     }
-  }, [refreshPending]);
+  }, [refreshPending, show]);
 
   useEffect(() => {
     void refreshPending().then(async () => {

@@ -21,6 +21,9 @@ const TONE: Record<ScanResult['outcome'], string> = {
 export function ResultPanel({ result, details, feedbackName }: { result: ScanResult | null; details: ItemView | null; feedbackName?: string }) {
   const ref = useRef<HTMLElement>(null);
   useEffect(() => {
+    // The panel stays mounted from one result to the next: a result that was not a timed scan
+    // must not keep the last one's figure.
+    ref.current?.removeAttribute('data-latency-ms');
     const started = result?.scannedAt;
     if (started == null) return;
     const frame = requestAnimationFrame(() => {
@@ -43,6 +46,7 @@ export function ResultPanel({ result, details, feedbackName }: { result: ScanRes
       data-testid="scan-result"
       data-outcome={result.outcome}
       data-serial={result.serial}
+      data-code={result.code ?? undefined}
       data-feedback={feedbackName}
       className={`rounded-card p-4 ring-2 ring-inset ${TONE[result.outcome]}`}
     >
