@@ -318,8 +318,24 @@ export async function attachmentsOf(
     const note = typeof e.payload.note === 'string' ? e.payload.note : null;
     return view ? [{ ...view, item: e.item, seq: e.seq, occurredAt: e.occurredAt, note }] : [];
   });
-  const unknown: FileCheck[] = attachedEvents
-    .filter((e) => !byHash.has(String(e.payload.sha256)))
+  const elsewhere = attachedEvents.filter((e) => !byHash.has(String(e.payload.sha256)));
+  // Signed test reports are cited by attached events too, but kept with their PDF in test_reports.
+  const reports = elsewhere.length
+    ? await ctx.sequelize.query<{ number: string; sha256: string; actual: string }>(
+        `SELECT number, pdf_sha256 AS sha256, encode(sha256(pdf), 'hex') AS actual FROM test_reports WHERE pdf_sha256 = ANY($1::text[])`,
+        { bind: [elsewhere.map((e) => String(e.payload.sha256))], type: QueryTypes.SELECT },
+      )
+    : [];
+  const reportChecks: FileCheck[] = reports.map((r) => ({
+    sha256: r.sha256,
+    ok: r.actual === r.sha256,
+    problem: r.actual === r.sha256 ? null : ('changed' as const),
+    actual: r.actual,
+    message: r.actual === r.sha256 ? `Test report ${r.number}: its PDF re-hashed, matches.` : `Test report ${r.number}: its stored PDF no longer hashes to the cited SHA-256.`,
+  }));
+  const reported = new Set(reports.map((r) => r.sha256));
+  const unknown: FileCheck[] = elsewhere
+    .filter((e) => !reported.has(String(e.payload.sha256)))
     .map((e) => ({
       sha256: String(e.payload.sha256),
       ok: false,
@@ -332,7 +348,7 @@ export async function attachmentsOf(
   else if (ctx.storage === null) {
     checks = views.map((v) => ({ sha256: v.sha256, ok: false, problem: 'missing' as const, actual: null, message: 'No object storage is configured, so the file cannot be read.' }));
   } else checks = await checkFiles(ctx, views.map((v) => ({ sha256: v.sha256, size: v.size })), mode);
-  const all = [...checks, ...unknown];
+  const all = [...checks, ...reportChecks, ...unknown];
   return { attachments, files: { mode, ok: all.every((c) => c.ok), checks: all } };
 }
 
