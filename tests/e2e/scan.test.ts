@@ -277,3 +277,18 @@ describe('a fixed, shared station', { timeout: 120_000 }, () => {
     await context.close();
   });
 });
+
+describe('who may scan', { timeout: 120_000 }, () => {
+  it('tells an auditor, who may not record events, instead of offering the scanner', async () => {
+    const user = await createUser(t, 'auditor');
+    const { context, page } = await rig.newPage('phone');
+    await page.goto('/sign-in?next=%2Fscan');
+    await page.getByLabel('E-mail').fill(user.email);
+    await page.getByLabel('Password').fill(TEST_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL((u) => u.pathname === '/scan');
+    await poll(() => page.getByTestId('scan-not-allowed').textContent()).toContain('may look things up but not record');
+    expect(await page.getByTestId('scan-screen').count()).toBe(0);
+    await context.close();
+  });
+});

@@ -1,7 +1,7 @@
 import { lazy, Suspense, useEffect, useState } from 'react';
 import { ROLE_LABELS } from '../../../../shared/permissions';
 import { PageHeader } from '../../../components/ui/page-header';
-import { useMe } from '../../auth/api/queries';
+import { useCan, useMe } from '../../auth/api/queries';
 import { OPERATOR_IDLE_MS, loadOperator } from '../station';
 import { useScanner } from '../use-scanner';
 import { listenForWedge } from '../wedge';
@@ -37,6 +37,24 @@ function Connection({ online, pending }: { online: boolean; pending: number }) {
  * vibration and a large result.
  */
 export function ScanScreen() {
+  const me = useMe();
+  const may = useCan('events.record');
+  if (me.data && !may) {
+    return (
+      <>
+        <PageHeader title="Scan" />
+        <p role="alert" className="rounded-card bg-ink-50 p-4 text-lead" data-testid="scan-not-allowed">
+          <span aria-hidden>▲ </span>
+          Your role may look things up but not record hand-offs. Use Trace to follow an item.
+        </p>
+      </>
+    );
+  }
+  return <Scanner />;
+}
+
+/** The scanner itself, for people who may record events. */
+function Scanner() {
   const s = useScanner();
   const me = useMe();
   const [camera, setCamera] = useState(false);
