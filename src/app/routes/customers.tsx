@@ -1,8 +1,7 @@
-import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { useNavigate } from 'react-router-dom';
 import { Button } from '../../components/ui/button';
-import { DataTable, listQueryOf, useListParams } from '../../components/ui/data-table';
+import { DataTable, useServerList } from '../../components/ui/data-table';
 import { Panel } from '../../components/ui/detail-list';
 import { PageHeader } from '../../components/ui/page-header';
 import { paths } from '../../config/paths';
@@ -12,8 +11,7 @@ import { CustomerForm } from '../../features/customers/components/customer-form'
 
 /** Customers: who orders the tests. */
 export function CustomersRoute() {
-  const [params, setParams] = useListParams('name');
-  const list = useQuery(customerQueries.list(listQueryOf(params)));
+  const list = useServerList('name', [], customerQueries.list);
   const [adding, setAdding] = useState(false);
   const navigate = useNavigate();
   return (
@@ -21,7 +19,7 @@ export function CustomersRoute() {
       <PageHeader
         title="Customers"
         subtitle="Who orders the tests, and how long their halves are kept."
-        actions={list.data?.canWrite && !adding ? <Button onClick={() => setAdding(true)}>New customer</Button> : null}
+        actions={list.query.data?.canWrite && !adding ? <Button onClick={() => setAdding(true)}>New customer</Button> : null}
       />
       {adding ? (
         <Panel title="New customer" className="mb-5">
@@ -31,12 +29,7 @@ export function CustomersRoute() {
       <DataTable
         label="Customers"
         columns={customerColumns}
-        data={list.data}
-        isFetching={list.isFetching}
-        isStale={list.isPlaceholderData}
-        error={list.error}
-        params={params}
-        onParams={setParams}
+        list={list}
         searchPlaceholder="Search by name or e-mail"
         rowKey={(c) => c.id}
       />

@@ -1,8 +1,7 @@
-import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { useNavigate } from 'react-router-dom';
 import { Button } from '../../components/ui/button';
-import { DataTable, listQueryOf, useListParams } from '../../components/ui/data-table';
+import { DataTable, useServerList } from '../../components/ui/data-table';
 import { Panel } from '../../components/ui/detail-list';
 import { PageHeader } from '../../components/ui/page-header';
 import { paths } from '../../config/paths';
@@ -13,8 +12,7 @@ import { HeatForm } from '../../features/heats/components/heat-form';
 
 /** Heats and lots: the melts samples come from. */
 export function HeatsRoute() {
-  const [params, setParams] = useListParams('-createdAt', ['orderId']);
-  const list = useQuery(heatQueries.list(listQueryOf(params)));
+  const list = useServerList('-createdAt', ['orderId'], heatQueries.list);
   const [adding, setAdding] = useState(false);
   const save = useSaveHeat();
   const navigate = useNavigate();
@@ -23,7 +21,7 @@ export function HeatsRoute() {
       <PageHeader
         title="Heats"
         subtitle="Each melt or lot, by its producer’s number."
-        actions={list.data?.canWrite && !adding ? <Button onClick={() => setAdding(true)}>Register a heat</Button> : null}
+        actions={list.query.data?.canWrite && !adding ? <Button onClick={() => setAdding(true)}>Register a heat</Button> : null}
       />
       {adding ? (
         <Panel title="New heat" className="mb-5">
@@ -33,12 +31,7 @@ export function HeatsRoute() {
       <DataTable
         label="Heats"
         columns={heatColumns}
-        data={list.data}
-        isFetching={list.isFetching}
-        isStale={list.isPlaceholderData}
-        error={list.error}
-        params={params}
-        onParams={setParams}
+        list={list}
         searchPlaceholder="Search by number, grade, producer or certificate"
         rowKey={(h) => h.id}
       />

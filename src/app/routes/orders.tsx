@@ -1,6 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
 import { ButtonLink } from '../../components/ui/button';
-import { DataTable, FilterSelect, listQueryOf, useListParams } from '../../components/ui/data-table';
+import { DataTable, FilterSelect, useServerList } from '../../components/ui/data-table';
 import { PageHeader } from '../../components/ui/page-header';
 import { paths } from '../../config/paths';
 import { customerQueries } from '../../features/customers/api/queries';
@@ -9,25 +9,20 @@ import { ORDER_STATUS_OPTIONS, orderColumns } from '../../features/orders/compon
 
 /** Orders: what customers asked the lab to test. */
 export function OrdersRoute() {
-  const [params, setParams] = useListParams('-createdAt', ['status', 'customerId', 'heatId']);
-  const list = useQuery(orderQueries.list(listQueryOf(params)));
+  const list = useServerList('-createdAt', ['status', 'customerId', 'heatId'], orderQueries.list);
+  const { params, setParams } = list;
   const customers = useQuery(customerQueries.list({ sort: 'name', page: 1, pageSize: 100 }));
   return (
     <>
       <PageHeader
         title="Orders"
         subtitle="What each customer asked for, and where it stands."
-        actions={list.data?.canWrite ? <ButtonLink to={paths.orderNew.path} variant="primary">New order</ButtonLink> : null}
+        actions={list.query.data?.canWrite ? <ButtonLink to={paths.orderNew.path} variant="primary">New order</ButtonLink> : null}
       />
       <DataTable
         label="Orders"
         columns={orderColumns}
-        data={list.data}
-        isFetching={list.isFetching}
-        isStale={list.isPlaceholderData}
-        error={list.error}
-        params={params}
-        onParams={setParams}
+        list={list}
         searchPlaceholder="Search by number, PO, specification or customer"
         rowKey={(o) => o.id}
         filters={

@@ -1,6 +1,5 @@
-import { useQuery } from '@tanstack/react-query';
 import { ButtonLink } from '../../components/ui/button';
-import { DataTable, FilterSelect, listQueryOf, useListParams } from '../../components/ui/data-table';
+import { DataTable, FilterSelect, useServerList } from '../../components/ui/data-table';
 import { PageHeader } from '../../components/ui/page-header';
 import { paths } from '../../config/paths';
 import { retentionQueries } from '../../features/retention/api/queries';
@@ -16,19 +15,20 @@ const WITHIN = [
 
 /** /retention: every retained item with the day it may go, what stands in the way, and where it is. */
 export function RetentionRoute() {
-  const [params, setParams] = useListParams('notBefore', ['status', 'within', 'order']);
-  const list = useQuery(retentionQueries.due(listQueryOf(params)));
-  const counts = list.data?.counts;
-  const dueCodes = (list.data?.items ?? []).filter((i) => i.status === 'may_go').map((i) => i.code);
+  const list = useServerList('notBefore', ['status', 'within', 'order'], retentionQueries.due);
+  const { params, setParams } = list;
+  const due = list.query.data;
+  const counts = due?.counts;
+  const dueCodes = (due?.items ?? []).filter((i) => i.status === 'may_go').map((i) => i.code);
   return (
     <>
       <PageHeader
         title="Retention"
-        subtitle={list.data ? `Dates are days in ${list.data.timeZone}. An item may go from the start of the day shown.` : 'What the store keeps, and when each item may go.'}
+        subtitle={due ? `Dates are days in ${due.timeZone}. An item may go from the start of the day shown.` : 'What the store keeps, and when each item may go.'}
         actions={
           <>
             <ButtonLink to={paths.holds.path}>Holds</ButtonLink>
-            {list.data?.canWrite ? (
+            {due?.canWrite ? (
               <ButtonLink to={paths.disposals.href(dueCodes)} variant="primary">
                 Start a disposal batch
               </ButtonLink>
@@ -49,12 +49,7 @@ export function RetentionRoute() {
       <DataTable
         label="Due list"
         columns={dueColumns}
-        data={list.data}
-        isFetching={list.isFetching}
-        isStale={list.isPlaceholderData}
-        error={list.error}
-        params={params}
-        onParams={setParams}
+        list={list}
         searchPlaceholder="Search by item, order, heat, customer or place"
         rowKey={(i) => i.code}
         emptyText="No retained item matches."

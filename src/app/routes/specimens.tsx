@@ -1,8 +1,7 @@
-import { useQuery } from '@tanstack/react-query';
 import { useNavigate } from 'react-router-dom';
 import type { SpecimenView } from '../../../shared/schemas/specimens';
 import { CodeField } from '../../components/ui/code-field';
-import { DataTable, FilterSelect, listQueryOf, useListParams } from '../../components/ui/data-table';
+import { DataTable, FilterSelect, useServerList } from '../../components/ui/data-table';
 import { Panel } from '../../components/ui/detail-list';
 import { PageHeader } from '../../components/ui/page-header';
 import { paths } from '../../config/paths';
@@ -17,13 +16,13 @@ const SHAPES = [
 
 /** Specimens: every machined piece, with its code and where it stands. */
 export function SpecimensRoute() {
-  const [params, setParams] = useListParams('-code', ['state', 'shape', 'orderId', 'heatId', 'sampleId']);
-  const list = useQuery(specimenQueries.list(listQueryOf(params)));
+  const list = useServerList('-code', ['state', 'shape', 'orderId', 'heatId', 'sampleId'], specimenQueries.list);
+  const { params, setParams } = list;
   const navigate = useNavigate();
   // Ticked specimens go to the labels page together; the ticks survive paging and searching.
   const selection = useLabelSelection();
   const canPrint = useCanPrintLabels();
-  const pageCodes = (list.data?.items ?? []).map((s) => s.code);
+  const pageCodes = (list.query.data?.items ?? []).map((s) => s.code);
   const columns = canPrint ? [selectionColumn(selection, (s: SpecimenView) => s.code, pageCodes), ...specimenColumns] : specimenColumns;
   const scoped = params.filters.orderId || params.filters.heatId || params.filters.sampleId;
   return (
@@ -44,12 +43,7 @@ export function SpecimensRoute() {
       <DataTable
         label="Specimens"
         columns={columns}
-        data={list.data}
-        isFetching={list.isFetching}
-        isStale={list.isPlaceholderData}
-        error={list.error}
-        params={params}
-        onParams={setParams}
+        list={list}
         searchPlaceholder="Search by code, heat, order or sample"
         rowKey={(s) => s.id}
         filters={

@@ -1,3 +1,4 @@
+import { useQuery, type QueryKey, type UseQueryOptions } from '@tanstack/react-query';
 import {
   flexRender,
   getCoreRowModel,
@@ -81,6 +82,32 @@ export function listQueryOf<F extends string>(params: ListParams<F>): Record<str
   return out;
 }
 
+/** A server-paged list as a screen holds it: its URL state, the setter, and the page being shown. */
+export interface ServerList<T, F extends string = string> {
+  params: ListParams<F>;
+  setParams: ReturnType<typeof useListParams<F>>[1];
+  query: { data: Page<T> | undefined; isFetching: boolean; isPlaceholderData: boolean; error: Error | null };
+}
+
+/**
+ * A server-paged list: its state in the URL ({@link useListParams}) and the query that fetches
+ * the page that state names. Hand the result to {@link DataTable} as `list`; the screen reads
+ * `list.query.data` for anything else the answer carries (whether the caller may write, counts).
+ *
+ * @param defaultSort - The sort when the URL names none (the server's default too).
+ * @param filterKeys - The filters this list offers, as URL parameter names.
+ * @param queryFor - The feature's list query builder, e.g. `customerQueries.list`.
+ */
+export function useServerList<F extends string, TData, TKey extends QueryKey>(
+  defaultSort: string,
+  filterKeys: readonly F[],
+  queryFor: (query: Record<string, string | number>) => UseQueryOptions<TData, Error, TData, TKey>,
+) {
+  const [params, setParams] = useListParams(defaultSort, filterKeys);
+  const query = useQuery(queryFor(listQueryOf(params)));
+  return { params, setParams, query };
+}
+
 /** `?a=1&b=2` from a list query, for the API path. */
 export function toQueryString(query: Record<string, string | number | undefined>): string {
   const search = new URLSearchParams();
@@ -129,12 +156,7 @@ function SortMark({ dir }: { dir: false | 'asc' | 'desc' }) {
 export function DataTable<T>({
   label,
   columns,
-  data,
-  isFetching,
-  isStale,
-  error,
-  params,
-  onParams,
+  list,
   searchPlaceholder = 'Search',
   filters,
   emptyText = 'Nothing matches.',
@@ -143,18 +165,17 @@ export function DataTable<T>({
   /** The table's accessible name. */
   label: string;
   columns: ColumnDef<T>[];
-  data: Page<T> | undefined;
-  isFetching: boolean;
-  /** True while the rows shown belong to the previous query. */
-  isStale: boolean;
-  error?: Error | null;
-  params: ListParams;
-  onParams: ReturnType<typeof useListParams>[1];
+  /** The list from {@link useServerList}. */
+  list: ServerList<T>;
   searchPlaceholder?: string;
   filters?: ReactNode;
   emptyText?: string;
   rowKey: (row: T) => string | number;
 }) {
+  const { params, setParams: onParams } = list;
+  const { data, isFetching, error } = list.query;
+  // The rows shown belong to the previous query until the next page arrives.
+  const isStale = list.query.isPlaceholderData;
   const sorting: SortingState = [{ id: params.sort.replace(/^-/, ''), desc: params.sort.startsWith('-') }];
   const rows = data?.items ?? [];
   const table = useReactTable({
