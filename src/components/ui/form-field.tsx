@@ -1,6 +1,7 @@
-import { useId, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
+import { useId, useState, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
 import type { FieldValues, Path, UseFormReturn } from 'react-hook-form';
 import { ApiError } from '../../lib/api-client';
+import { Button } from './button';
 
 const CONTROL =
   'w-full rounded-md border bg-white px-3 text-body text-ink-900 placeholder:text-ink-400 disabled:bg-ink-50 aria-[invalid=true]:border-stop-500 aria-[invalid=true]:ring-1 aria-[invalid=true]:ring-stop-500';
@@ -143,13 +144,21 @@ export function FormAlert({ children }: { children: ReactNode }) {
  * @param form - The react-hook-form instance.
  * @param error - What the mutation threw.
  * @param fields - The field paths this form shows.
+ * @param pathPrefix - Stripped from the server's paths first, when the form's fields sit nested in
+ *   the request body (e.g. "heat." for a heat registered inside an order's request).
  */
-export function showServerErrors<T extends FieldValues, O>(form: UseFormReturn<T, unknown, O>, error: unknown, fields: readonly Path<T>[]): string | null {
+export function showServerErrors<T extends FieldValues, O>(
+  form: UseFormReturn<T, unknown, O>,
+  error: unknown,
+  fields: readonly Path<T>[],
+  pathPrefix = '',
+): string | null {
   if (!(error instanceof ApiError)) return 'Something went wrong; try again.';
   const leftOver: string[] = [];
   let placed = 0;
   for (const issue of error.fieldIssues()) {
-    const field = fields.find((f) => f === issue.path);
+    const path = pathPrefix && issue.path.startsWith(pathPrefix) ? issue.path.slice(pathPrefix.length) : issue.path;
+    const field = fields.find((f) => f === path);
     if (field) {
       form.setError(field, { type: 'server', message: issue.message }, { shouldFocus: placed === 0 });
       placed += 1;
@@ -159,4 +168,70 @@ export function showServerErrors<T extends FieldValues, O>(form: UseFormReturn<T
   }
   if (placed > 0 && leftOver.length === 0) return null;
   return [error.message, ...leftOver].join(' ');
+}
+
+/**
+ * A form's submit handler for a round trip to the server: clears the last alert, sends the parsed
+ * body, and when the server refuses puts its field issues beside the fields (see
+ * {@link showServerErrors}) and keeps the rest as the form's alert.
+ *
+ * @param form - The react-hook-form instance.
+ * @param fields - The field paths this form shows.
+ * @param send - Does the work with the body the form's schema parsed; throws what the API threw.
+ * @param pathPrefix - See {@link showServerErrors}.
+ */
+export function useServerSubmit<T extends FieldValues, O>(
+  form: UseFormReturn<T, unknown, O>,
+  fields: readonly Path<T>[],
+  send: (body: O) => Promise<void>,
+  pathPrefix = '',
+): { onSubmit: ReturnType<UseFormReturn<T, unknown, O>['handleSubmit']>; alert: string | null } {
+  const [alert, setAlert] = useState<string | null>(null);
+  const onSubmit = form.handleSubmit(async (body) => {
+    setAlert(null);
+    try {
+      await send(body);
+    } catch (err) {
+      setAlert(showServerErrors(form, err, fields, pathPrefix));
+    }
+  });
+  return { onSubmit, alert };
+}
+
+/**
+ * The end of a form in a grid: its alert, the submit button (busy while saving) and Cancel when
+ * the form may be closed.
+ *
+ * @param span - The grid columns both rows take, matching the form's grid.
+ */
+export function FormFooter({
+  alert,
+  busy,
+  submitLabel,
+  onCancel,
+  span = 'sm:col-span-2',
+}: {
+  alert: string | null;
+  busy: boolean;
+  submitLabel: ReactNode;
+  onCancel?: () => void;
+  span?: string;
+}) {
+  return (
+    <>
+      <div className={span}>
+        <FormAlert>{alert}</FormAlert>
+      </div>
+      <div className={`flex gap-2 ${span}`}>
+        <Button type="submit" busy={busy} busyLabel="Saving …">
+          {submitLabel}
+        </Button>
+        {onCancel ? (
+          <Button variant="ghost" onClick={onCancel}>
+            Cancel
+          </Button>
+        ) : null}
+      </div>
+    </>
+  );
 }

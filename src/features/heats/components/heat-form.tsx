@@ -1,11 +1,8 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { HeatCreateSchema, type HeatCreate, type HeatView } from '../../../../shared/schemas/heats';
-import { Button } from '../../../components/ui/button';
-import { FormAlert, showServerErrors, TextField } from '../../../components/ui/form-field';
-import { ApiError } from '../../../lib/api-client';
+import { FormFooter, TextField, useServerSubmit } from '../../../components/ui/form-field';
 
 type Input = z.input<typeof HeatCreateSchema>;
 const FIELDS = ['heatNumber', 'material', 'grade', 'producer', 'certificateRef'] as const;
@@ -30,7 +27,6 @@ export function HeatForm({
   submitLabel: string;
   pathPrefix?: string;
 }) {
-  const [alert, setAlert] = useState<string | null>(null);
   const form = useForm<Input, unknown, HeatCreate>({
     resolver: zodResolver(HeatCreateSchema),
     defaultValues: {
@@ -42,19 +38,15 @@ export function HeatForm({
     },
   });
   const { errors } = form.formState;
-  const onSubmit = form.handleSubmit(async (body) => {
-    setAlert(null);
-    try {
+  const { onSubmit, alert } = useServerSubmit(
+    form,
+    FIELDS,
+    async (body) => {
       onSaved(await save(body));
       if (!heat) form.reset();
-    } catch (err) {
-      const stripped =
-        err instanceof ApiError && pathPrefix
-          ? new ApiError(err.status, err.code, err.message, err.fieldIssues().map((i) => ({ ...i, path: i.path.startsWith(pathPrefix) ? i.path.slice(pathPrefix.length) : i.path })))
-          : err;
-      setAlert(showServerErrors(form, stripped, FIELDS));
-    }
-  });
+    },
+    pathPrefix,
+  );
   return (
     <form onSubmit={onSubmit} noValidate className="grid gap-4 sm:grid-cols-2" aria-label={heat ? 'Change heat' : 'New heat'}>
       <TextField label="Heat number" className="font-mono" autoCapitalize="characters" error={errors.heatNumber?.message} {...form.register('heatNumber')} />
@@ -62,19 +54,7 @@ export function HeatForm({
       <TextField label="Material" placeholder="Carbon steel plate" error={errors.material?.message} {...form.register('material')} />
       <TextField label="Grade" placeholder="A36" error={errors.grade?.message} {...form.register('grade')} />
       <TextField label="Certificate reference" hint="The producer’s inspection certificate, if any." error={errors.certificateRef?.message} {...form.register('certificateRef')} />
-      <div className="sm:col-span-2">
-        <FormAlert>{alert}</FormAlert>
-      </div>
-      <div className="flex gap-2 sm:col-span-2">
-        <Button type="submit" busy={form.formState.isSubmitting} busyLabel="Saving …">
-          {submitLabel}
-        </Button>
-        {onCancel ? (
-          <Button variant="ghost" onClick={onCancel}>
-            Cancel
-          </Button>
-        ) : null}
-      </div>
+      <FormFooter alert={alert} busy={form.formState.isSubmitting} submitLabel={submitLabel} onCancel={onCancel} />
     </form>
   );
 }

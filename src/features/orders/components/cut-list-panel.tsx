@@ -6,7 +6,7 @@ import { CutListCreateSchema, type CutListCreate, type CutListResult } from '../
 import type { OrderDetail } from '../../../../shared/schemas/orders';
 import { ORIENTATION_SUGGESTIONS } from '../../../../shared/schemas/samples';
 import { Button } from '../../../components/ui/button';
-import { FormAlert, showServerErrors, TextField } from '../../../components/ui/form-field';
+import { FormAlert, TextField, useServerSubmit } from '../../../components/ui/form-field';
 import { useMakeCutList } from '../api/cut-list';
 import { CutListImport } from './cut-list-import';
 import { CutListMade } from './cut-list-made';
@@ -20,21 +20,15 @@ const FIELDS = ['specimensPerHeat', 'position', 'orientation', 'thicknessMm', 's
  */
 export function CutListPanel({ order }: { order: OrderDetail }) {
   const make = useMakeCutList(order.id);
-  const [alert, setAlert] = useState<string | null>(null);
   const [made, setMade] = useState<CutListResult | null>(null);
   const form = useForm<Input, unknown, CutListCreate>({
     resolver: zodResolver(CutListCreateSchema),
     defaultValues: { specimensPerHeat: order.specimensPerHeat, position: '', orientation: 'longitudinal', thicknessMm: '' },
   });
   const { errors } = form.formState;
-  const onSubmit = form.handleSubmit(async (body) => {
-    setAlert(null);
+  const { onSubmit, alert } = useServerSubmit(form, FIELDS, async (body) => {
     setMade(null);
-    try {
-      setMade(await make.mutateAsync(body));
-    } catch (err) {
-      setAlert(showServerErrors(form, err, FIELDS));
-    }
+    setMade(await make.mutateAsync(body));
   });
   const heats = order.heats.length;
   return (

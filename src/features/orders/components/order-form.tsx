@@ -1,5 +1,4 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { AREA_POLICIES } from '../../../../shared/domain/measurement';
@@ -13,8 +12,7 @@ import {
   TESTS,
   type OrderView,
 } from '../../../../shared/schemas/orders';
-import { Button } from '../../../components/ui/button';
-import { Field, FormAlert, SelectField, showServerErrors, TextField } from '../../../components/ui/form-field';
+import { Field, FormFooter, SelectField, TextField, useServerSubmit } from '../../../components/ui/form-field';
 import { useSaveOrder } from '../api/save-order';
 
 const AREA_LABELS: Record<(typeof AREA_POLICIES)[number], string> = {
@@ -58,7 +56,6 @@ export function OrderForm({
   onCancel?: () => void;
 }) {
   const save = useSaveOrder(order?.id);
-  const [alert, setAlert] = useState<string | null>(null);
   const form = useForm<Input, unknown, Output>({
     resolver: zodResolver(EditSchema),
     defaultValues: {
@@ -79,14 +76,7 @@ export function OrderForm({
   });
   const { errors } = form.formState;
   const geometry = getGeometry(String(form.watch('geometryKey') ?? ''));
-  const onSubmit = form.handleSubmit(async (body) => {
-    setAlert(null);
-    try {
-      onSaved(await save.mutateAsync(body));
-    } catch (err) {
-      setAlert(showServerErrors(form, err, FIELDS));
-    }
-  });
+  const { onSubmit, alert } = useServerSubmit(form, FIELDS, async (body) => onSaved(await save.mutateAsync(body)));
   const geometryField = form.register('geometryKey');
   return (
     <form onSubmit={onSubmit} noValidate className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3" aria-label={order ? 'Change order' : 'New order'}>
@@ -139,19 +129,7 @@ export function OrderForm({
       {order ? (
         <SelectField label="Status" options={ORDER_STATUSES.map((s) => ({ value: s, label: ORDER_STATUS_LABELS[s] }))} error={errors.status?.message} {...form.register('status')} />
       ) : null}
-      <div className="sm:col-span-2 lg:col-span-3">
-        <FormAlert>{alert}</FormAlert>
-      </div>
-      <div className="flex gap-2 sm:col-span-2 lg:col-span-3">
-        <Button type="submit" busy={save.isPending} busyLabel="Saving …">
-          {order ? 'Save changes' : 'Create order'}
-        </Button>
-        {onCancel ? (
-          <Button variant="ghost" onClick={onCancel}>
-            Cancel
-          </Button>
-        ) : null}
-      </div>
+      <FormFooter alert={alert} busy={save.isPending} submitLabel={order ? 'Save changes' : 'Create order'} onCancel={onCancel} span="sm:col-span-2 lg:col-span-3" />
     </form>
   );
 }

@@ -1,10 +1,8 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { ORIENTATION_SUGGESTIONS, SampleCreateSchema, type SampleCreate, type SampleView } from '../../../../shared/schemas/samples';
-import { Button } from '../../../components/ui/button';
-import { FormAlert, SelectField, showServerErrors, TextField } from '../../../components/ui/form-field';
+import { FormFooter, SelectField, TextField, useServerSubmit } from '../../../components/ui/form-field';
 import { useSaveSample } from '../api/save-sample';
 
 type Input = z.input<typeof SampleCreateSchema>;
@@ -28,7 +26,6 @@ export function SampleForm({
   onCancel?: () => void;
 }) {
   const save = useSaveSample(sample?.id);
-  const [alert, setAlert] = useState<string | null>(null);
   const form = useForm<Input, unknown, SampleCreate>({
     resolver: zodResolver(SampleCreateSchema),
     defaultValues: {
@@ -40,14 +37,9 @@ export function SampleForm({
     },
   });
   const { errors } = form.formState;
-  const onSubmit = form.handleSubmit(async ({ orderId: _order, heatId: _heat, ...fields }) => {
-    setAlert(null);
-    try {
-      onSaved(await save.mutateAsync(sample ? fields : { orderId: _order, heatId: _heat, ...fields }));
-      if (!sample) form.reset();
-    } catch (err) {
-      setAlert(showServerErrors(form, err, FIELDS));
-    }
+  const { onSubmit, alert } = useServerSubmit(form, FIELDS, async ({ orderId: _order, heatId: _heat, ...fields }) => {
+    onSaved(await save.mutateAsync(sample ? fields : { orderId: _order, heatId: _heat, ...fields }));
+    if (!sample) form.reset();
   });
   return (
     <form onSubmit={onSubmit} noValidate aria-label={sample ? 'Change sample' : 'New sample'} className="grid gap-4 sm:grid-cols-2">
@@ -60,19 +52,7 @@ export function SampleForm({
           <option key={o} value={o} />
         ))}
       </datalist>
-      <div className="sm:col-span-2">
-        <FormAlert>{alert}</FormAlert>
-      </div>
-      <div className="flex gap-2 sm:col-span-2">
-        <Button type="submit" busy={save.isPending} busyLabel="Saving …">
-          {sample ? 'Save changes' : 'Add sample'}
-        </Button>
-        {onCancel ? (
-          <Button variant="ghost" onClick={onCancel}>
-            Cancel
-          </Button>
-        ) : null}
-      </div>
+      <FormFooter alert={alert} busy={save.isPending} submitLabel={sample ? 'Save changes' : 'Add sample'} onCancel={onCancel} />
     </form>
   );
 }
