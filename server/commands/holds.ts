@@ -5,17 +5,9 @@ import type { HoldCreate, HoldRelease, HoldView } from '../../shared/schemas/hol
 import type { AppContext } from '../app';
 import { consumeSignature } from '../auth/signatures';
 import { AppError, conflict, notFound, unprocessable } from '../errors';
-import { holdsCovering, loadRetainedItems, type ActiveHold } from './retention';
+import { activeHoldOf, holdsCovering, loadRetainedItems, type HoldRowCore } from './retention';
 
-interface HoldRow {
-  id: number;
-  scope: HoldView['scope'];
-  order_id: number | null;
-  heat_id: number | null;
-  item_id: string | null;
-  ref: string;
-  reason: string;
-  placed_at: Date;
+interface HoldRow extends HoldRowCore {
   placed_by: number;
   placed_by_name: string;
   released_at: Date | null;
@@ -28,19 +20,6 @@ const HOLD_SELECT = `
   SELECT h.id, h.scope, h.order_id, h.heat_id, h.item_id, h.ref, h.reason, h.placed_at, h.placed_by, p.name AS placed_by_name,
          h.released_at, h.released_by, r.name AS released_by_name, h.release_reason
     FROM legal_holds h JOIN users p ON p.id = h.placed_by LEFT JOIN users r ON r.id = h.released_by`;
-
-function toActive(row: HoldRow): ActiveHold {
-  return {
-    id: row.id,
-    scope: row.scope,
-    orderId: row.order_id,
-    heatId: row.heat_id,
-    itemId: row.item_id === null ? null : Number(row.item_id),
-    ref: row.ref,
-    reason: row.reason,
-    placedAt: new Date(row.placed_at).toISOString(),
-  };
-}
 
 /** Lists holds, newest first, each with how many retained items it covers. */
 export async function listHolds(ctx: AppContext, filter: { active?: boolean; scope?: HoldView['scope'] } = {}): Promise<HoldView[]> {
@@ -57,7 +36,7 @@ export async function listHolds(ctx: AppContext, filter: { active?: boolean; sco
   });
   const retained = await loadRetainedItems(ctx);
   return rows.map((row) => {
-    const active = toActive(row);
+    const active = activeHoldOf(row);
     return {
       id: row.id,
       scope: row.scope,

@@ -217,31 +217,40 @@ export interface ActiveHold {
   placedAt: string;
 }
 
+/** The columns of a `legal_holds` row that judging an item needs. */
+export interface HoldRowCore {
+  id: number;
+  scope: ActiveHold['scope'];
+  order_id: number | null;
+  heat_id: number | null;
+  item_id: string | null;
+  ref: string;
+  reason: string;
+  placed_at: Date;
+}
+
+/** A hold row as the retention checks use it. */
+export function activeHoldOf(row: HoldRowCore): ActiveHold {
+  return {
+    id: row.id,
+    scope: row.scope,
+    orderId: row.order_id,
+    heatId: row.heat_id,
+    // items.id is a bigint, which pg returns as text; ids stay far below 2^53.
+    itemId: row.item_id === null ? null : Number(row.item_id),
+    ref: row.ref,
+    reason: row.reason,
+    placedAt: new Date(row.placed_at).toISOString(),
+  };
+}
+
 /** The holds not yet released. */
 export async function loadActiveHolds(ctx: AppContext, transaction?: Transaction): Promise<ActiveHold[]> {
-  const rows = await ctx.sequelize.query<{
-    id: number;
-    scope: ActiveHold['scope'];
-    order_id: number | null;
-    heat_id: number | null;
-    item_id: string | null;
-    ref: string;
-    reason: string;
-    placed_at: Date;
-  }>('SELECT id, scope, order_id, heat_id, item_id, ref, reason, placed_at FROM legal_holds WHERE released_at IS NULL ORDER BY id', {
-    type: QueryTypes.SELECT,
-    transaction,
-  });
-  return rows.map((r) => ({
-    id: r.id,
-    scope: r.scope,
-    orderId: r.order_id,
-    heatId: r.heat_id,
-    itemId: r.item_id === null ? null : Number(r.item_id),
-    ref: r.ref,
-    reason: r.reason,
-    placedAt: new Date(r.placed_at).toISOString(),
-  }));
+  const rows = await ctx.sequelize.query<HoldRowCore>(
+    'SELECT id, scope, order_id, heat_id, item_id, ref, reason, placed_at FROM legal_holds WHERE released_at IS NULL ORDER BY id',
+    { type: QueryTypes.SELECT, transaction },
+  );
+  return rows.map(activeHoldOf);
 }
 
 /** The holds that cover an item: on its order, its heat, itself, or (for a half) its specimen. */
