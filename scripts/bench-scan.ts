@@ -11,19 +11,10 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { gzipSync } from 'node:zlib';
-import cookieParser from 'cookie-parser';
-import express, { Router, type Express } from 'express';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { createApp, createContext, type AppContext } from '../server/app';
-import { withStationOperator } from '../server/auth/operator-token';
 import { loadConfig } from '../server/config';
 import { createSequelize } from '../server/db';
-import { authenticate, authorize } from '../server/middleware/auth';
-import { errorHandler } from '../server/middleware/error-handler';
-import { validate } from '../server/middleware/validate';
-import { postEvent, postEventBatch } from '../server/routes/events/handlers';
-import { stationOperatorRouter } from '../server/routes/station-operator/router';
-import { EventBatchSchema, EventInputSchema } from '../shared/schemas/events';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -32,33 +23,6 @@ export const SCAN_VIEWPORTS = {
   phone: { width: 390, height: 844 },
   desktop: { width: 1280, height: 800 },
 } as const;
-
-/**
- * The app with the station-operator route at /api/auth/station-operator and X-Operator-Token
- * applied on /api/events and /api/events/batch (authorize, then withStationOperator, then the
- * ledger's own handlers); every other request goes to the app as createApp builds it.
- *
- * @param ctx - The app context.
- * @param opts - Where the built client is.
- */
-export function createScanApp(ctx: AppContext, opts: { clientDir?: string } = {}): Express {
-  const outer = express();
-  outer.disable('x-powered-by');
-  outer.use((req, _res, next) => {
-    req.ctx = ctx;
-    next();
-  });
-  outer.use(express.json({ limit: '2mb' }));
-  outer.use(cookieParser());
-  const api = Router();
-  api.use('/auth/station-operator', stationOperatorRouter());
-  api.post('/events', authorize('events.record'), withStationOperator(), validate(EventInputSchema), postEvent);
-  api.post('/events/batch', authorize('events.record'), withStationOperator(), validate(EventBatchSchema), postEventBatch);
-  outer.use('/api', authenticate, api);
-  outer.use(createApp(ctx, opts));
-  outer.use(errorHandler);
-  return outer;
-}
 
 /** A server on loopback with the built client, and a headless chromium. */
 export interface ScanBrowser {
@@ -75,7 +39,7 @@ export interface ScanBrowser {
  * @param ctx - The app context, on a database of its own.
  */
 export async function startScanBrowser(ctx: AppContext): Promise<ScanBrowser> {
-  const app = createScanApp(ctx, { clientDir: path.join(root, 'dist') });
+  const app = createApp(ctx, { clientDir: path.join(root, 'dist') });
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(0, '127.0.0.1', () => resolve(s));
   });

@@ -1,5 +1,6 @@
 import { Router } from 'express';
 import { authRouter } from './auth/router';
+import { stationOperatorRouter } from './station-operator/router';
 import { healthRouter } from './health/router';
 import { usersRouter } from './users/router';
 import { stationsRouter } from './stations/router';
@@ -30,6 +31,7 @@ import { anomaliesRouter } from './anomalies/router';
 export function apiRouter(): Router {
   const router = Router();
   router.use('/health', healthRouter());
+  router.use('/auth/station-operator', stationOperatorRouter());
   router.use('/auth', authRouter());
   router.use('/users', usersRouter());
   router.use('/stations', stationsRouter());

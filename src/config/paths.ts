@@ -33,10 +33,10 @@ export const paths = {
     label: 'Disposals',
     href: (codes: readonly string[] = []) => (codes.length > 0 ? `/disposals?codes=${codes.map(encodeURIComponent).join(',')}` : '/disposals'),
   },
+  trace: { path: '/trace/:code?', label: 'Trace', href: (code: string) => `/trace/${encodeURIComponent(code)}` },
+  anomalies: { path: '/anomalies', label: 'Anomalies' },
   results: { path: '/results', label: 'Results' },
   resultsOrder: { path: '/results/orders/:id', label: 'Order results', href: (id: number) => `/results/orders/${id}` },
   resultsSpecimen: { path: '/results/specimens/:code', label: 'Specimen results', href: (code: string) => `/results/specimens/${encodeURIComponent(code)}` },
   specifications: { path: '/specifications', label: 'Specifications' },
-  trace: { path: '/trace/:code?', label: 'Trace', href: (code: string) => `/trace/${encodeURIComponent(code)}` },
-  anomalies: { path: '/anomalies', label: 'Anomalies' },
 } as const;

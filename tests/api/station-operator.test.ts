@@ -1,48 +1,17 @@
-import cookieParser from 'cookie-parser';
-import express, { Router, type Express } from 'express';
 import jwt from 'jsonwebtoken';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { badgeCode, specimenCode } from '../../shared/domain/codes';
 import type { Role } from '../../shared/permissions';
 import { hashPassword } from '../../server/auth/passwords';
-import { signOperatorToken, withStationOperator } from '../../server/auth/operator-token';
-import { recordEvent, registerItem } from '../../server/commands/record-event';
-import { authenticate, authorize } from '../../server/middleware/auth';
-import { errorHandler } from '../../server/middleware/error-handler';
+import { signOperatorToken } from '../../server/auth/operator-token';
+import { registerItem } from '../../server/commands/record-event';
 import type { User } from '../../server/models/user';
-import { stationOperatorRouter } from '../../server/routes/station-operator/router';
-import { apiRouter } from '../../server/routes';
 import { createUser, TEST_PASSWORD } from '../factories';
 import { createTestContext, type TestContext } from '../support';
 
 let t: TestContext;
-let app: Express;
-
-/**
- * The API with the station-operator router mounted where it belongs, and a minimal event route that
- * applies X-Operator-Token the way the ledger's routes are asked to: authorize, then withStationOperator.
- */
-function stationApp(ctx: TestContext): Express {
-  const a = express();
-  a.use((req, _res, next) => {
-    req.ctx = ctx.ctx;
-    next();
-  });
-  a.use(express.json());
-  a.use(cookieParser());
-  const api = Router();
-  api.use('/auth/station-operator', stationOperatorRouter());
-  api.post('/test-events', authorize('events.record'), withStationOperator(), async (req, res) => {
-    if (!req.actor) throw new Error('no actor');
-    const recorded = await recordEvent(req.ctx, req.body, { actor: req.actor });
-    res.status(recorded.status).json(recorded);
-  });
-  api.use(apiRouter());
-  a.use('/api', authenticate, api);
-  a.use(errorHandler);
-  return a;
-}
+let app: TestContext['app'];
 
 async function agentFor(user: User) {
   const agent = request.agent(app);
@@ -63,7 +32,7 @@ async function operator(role: Role, pin = '4821'): Promise<{ user: User; badge: 
 
 beforeAll(async () => {
   t = await createTestContext();
-  app = stationApp(t);
+  app = t.app;
 });
 afterAll(() => t.close());
 
@@ -153,7 +122,7 @@ describe('X-Operator-Token on event posts', () => {
     const code = await newSpecimen(stationUser);
     const { body } = await station.post('/api/auth/station-operator', { badgeCode: op.badge, pin: op.pin }).expect(200);
     const event = cut(code);
-    await station.post('/api/test-events', event, { 'X-Operator-Token': body.token }).expect(201);
+    await station.post('/api/events', event, { 'X-Operator-Token': body.token }).expect(201);
     expect(await actorOf(event.idempotencyKey)).toBe(op.user.id);
   });
 
@@ -161,7 +130,7 @@ describe('X-Operator-Token on event posts', () => {
     const stationUser = await createUser(t, 'technician');
     const station = await agentFor(stationUser);
     const event = cut(await newSpecimen(stationUser));
-    await station.post('/api/test-events', event).expect(201);
+    await station.post('/api/events', event).expect(201);
     expect(await actorOf(event.idempotencyKey)).toBe(stationUser.id);
   });
 
@@ -172,7 +141,7 @@ describe('X-Operator-Token on event posts', () => {
     const other = await agentFor(otherUser);
     const { body } = await first.post('/api/auth/station-operator', { badgeCode: op.badge, pin: op.pin }).expect(200);
     const event = cut(await newSpecimen(otherUser));
-    const res = await other.post('/api/test-events', event, { 'X-Operator-Token': body.token }).expect(401);
+    const res = await other.post('/api/events', event, { 'X-Operator-Token': body.token }).expect(401);
     expect(res.body.error.code).toBe('operator_token_invalid');
     expect(await actorOf(event.idempotencyKey)).toBeNull();
   });
@@ -183,7 +152,7 @@ describe('X-Operator-Token on event posts', () => {
     const op = await operator('machinist');
     const { body } = await station.post('/api/auth/station-operator', { badgeCode: op.badge, pin: op.pin }).expect(200);
     await op.user.update({ pinHash: await hashPassword('7777') });
-    await station.post('/api/test-events', cut(await newSpecimen(stationUser)), { 'X-Operator-Token': body.token }).expect(401);
+    await station.post('/api/events', cut(await newSpecimen(stationUser)), { 'X-Operator-Token': body.token }).expect(401);
 
     const fresh = await op.user.reload();
     // Issued thirteen hours ago, so it ran out an hour ago (tokens last twelve).
@@ -191,7 +160,7 @@ describe('X-Operator-Token on event posts', () => {
     const clock = vi.spyOn(Date, 'now').mockReturnValue(now - 13 * 3_600_000);
     const { token } = signOperatorToken(t.config.SESSION_SECRET, fresh, stationUser.id);
     clock.mockRestore();
-    const expired = await station.post('/api/test-events', cut(await newSpecimen(stationUser)), { 'X-Operator-Token': token }).expect(401);
+    const expired = await station.post('/api/events', cut(await newSpecimen(stationUser)), { 'X-Operator-Token': token }).expect(401);
     expect(expired.body.error.message).toMatch(/expired/);
   });
 
@@ -204,6 +173,6 @@ describe('X-Operator-Token on event posts', () => {
     const asSession = await request(app).get('/api/auth/me').set('Cookie', `hm_session=${body.token}`);
     expect(asSession.status).toBe(401);
     const forged = jwt.sign({ ver: 0, pin: 'x', tab: stationUser.id }, t.config.SESSION_SECRET, { subject: String(op.user.id), audience: 'halfmark-station-operator' });
-    await station.post('/api/test-events', cut(await newSpecimen(stationUser)), { 'X-Operator-Token': forged }).expect(401);
+    await station.post('/api/events', cut(await newSpecimen(stationUser)), { 'X-Operator-Token': forged }).expect(401);
   });
 });
