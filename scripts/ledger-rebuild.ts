@@ -5,7 +5,10 @@
  */
 import { createSequelize } from '../server/db';
 import { rebuildProjections } from '../server/commands/rebuild-projections';
+import { registerNativeHash } from '../server/ledger/native-hash';
 import { prepareDatabase } from './lib/embedded-db';
+
+registerNativeHash();
 
 const db = await prepareDatabase(process.env.DATA_DIR ?? '.data');
 const sequelize = createSequelize(db.appUrl, { poolMax: 2 });

@@ -10,6 +10,7 @@ import { errorHandler } from './middleware/error-handler';
 import { apiRouter } from './routes';
 import { authenticate } from './middleware/auth';
 import { defineModels, type Models } from './models/registry';
+import { registerNativeHash } from './ledger/native-hash';
 import { createMailer, type Mailer } from './mail/mailer';
 import { createObjectStore, type ObjectStore } from './storage/object-store';
 
@@ -26,6 +27,7 @@ export interface AppContext {
 
 /** Binds the models to the connection and bundles what the handlers need. */
 export function createContext(config: Config, sequelize: Sequelize): AppContext {
+  registerNativeHash();
   return { config, sequelize, models: defineModels(sequelize), mailer: createMailer(config), storage: createObjectStore(config) };
 }
 

@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { sha256, sha256Hex, sha256HexOfText, toHex } from './sha256';
+import { sha256, sha256Hex, sha256HexOfText, toHex, useNativeSha256 } from './sha256';
 
 // The test runs in Node only, so it may use node:crypto as an independent reference.
 function nodeSha256Hex(bytes: Uint8Array): string {
@@ -57,5 +57,16 @@ describe('sha256', () => {
   it('returns 32 bytes, and toHex writes two lowercase digits per byte', () => {
     expect(sha256(new Uint8Array()).length).toBe(32);
     expect(toHex(Uint8Array.from([0, 10, 255]))).toBe('000aff');
+  });
+});
+
+describe('useNativeSha256', () => {
+  it('gives the same digests as the pure implementation once a native one is registered', () => {
+    const samples = ['', 'abc', 'a'.repeat(1000), '{"item":"S26-00157-W","seq":1}'];
+    const pure = samples.map((s) => sha256HexOfText(s));
+    useNativeSha256((m) => createHash('sha256').update(m).digest('hex'));
+    // Source: FIPS 180-4 example "abc" (CHECKS.md), checked through the registered implementation.
+    expect(sha256HexOfText('abc')).toBe('ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
+    expect(samples.map((s) => sha256HexOfText(s))).toEqual(pure);
   });
 });

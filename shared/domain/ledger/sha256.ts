@@ -87,9 +87,20 @@ export function toHex(bytes: Uint8Array): string {
   return hex;
 }
 
+let nativeHex: ((message: Uint8Array) => string) | null = null;
+
+/**
+ * Lets a host with a native SHA-256 (the server's node:crypto) stand in for the pure one, which
+ * stays the definition and the browser's implementation; both give the same digest (sha256.test.ts).
+ * The server registers it once at start, so verifying a large ledger is not bound by pure JS.
+ */
+export function useNativeSha256(impl: (message: Uint8Array) => string): void {
+  nativeHex = impl;
+}
+
 /** SHA-256 of a byte string as 64 lowercase hexadecimal digits. */
 export function sha256Hex(message: Uint8Array): string {
-  return toHex(sha256(message));
+  return nativeHex ? nativeHex(message) : toHex(sha256(message));
 }
 
 /** SHA-256 of a string's UTF-8 bytes as 64 lowercase hexadecimal digits. */
