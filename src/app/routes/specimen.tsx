@@ -2,7 +2,7 @@ import { useSuspenseQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Link, useParams, type LoaderFunctionArgs } from 'react-router-dom';
 import type { SpecimenNominal } from '../../../shared/schemas/specimens';
-import { Button } from '../../components/ui/button';
+import { Button, ButtonLink } from '../../components/ui/button';
 import { DetailList, Mono, Panel } from '../../components/ui/detail-list';
 import { PageHeader } from '../../components/ui/page-header';
 import { StateBadge } from '../../components/ui/state-badge';
@@ -45,7 +45,17 @@ export function SpecimenRoute() {
       <PageHeader
         title={specimen.code}
         subtitle={<StateBadge state={specimen.state} />}
-        actions={specimen.canWrite && specimen.state === 'registered' && !editing ? <Button onClick={() => setEditing(true)}>Change plan</Button> : null}
+        actions={
+          <>
+            <ButtonLink to={paths.trace.href(specimen.code)} data-testid="specimen-trace-link">
+              Trace
+            </ButtonLink>
+            <ButtonLink to={paths.resultsSpecimen.href(specimen.code)} data-testid="specimen-results-link">
+              Results
+            </ButtonLink>
+            {specimen.canWrite && specimen.state === 'registered' && !editing ? <Button onClick={() => setEditing(true)}>Change plan</Button> : null}
+          </>
+        }
       />
       <div className="flex flex-col gap-5">
         <Panel title="Where it comes from">
