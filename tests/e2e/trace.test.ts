@@ -1,12 +1,17 @@
 import { PNG } from 'pngjs';
 import type { Page } from 'playwright-core';
+import type { Role } from '../../shared/permissions';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createUser, signedInAs, TEST_PASSWORD } from '../factories';
 import { buildLife, type Life } from '../api/trace-fixtures';
 import { startBrowserRig, type BrowserRig } from './browser';
 
 async function signInAuditor(rig: BrowserRig, page: Page): Promise<void> {
-  const user = await createUser(rig.t, 'auditor');
+  await signInAs(rig, page, 'auditor');
+}
+
+async function signInAs(rig: BrowserRig, page: Page, role: Role): Promise<void> {
+  const user = await createUser(rig.t, role);
   await page.goto('/sign-in');
   await page.getByLabel('E-mail').fill(user.email);
   await page.getByLabel('Password').fill(TEST_PASSWORD);
@@ -14,9 +19,9 @@ async function signInAuditor(rig: BrowserRig, page: Page): Promise<void> {
   await page.waitForURL((u) => u.pathname === '/');
 }
 
-/** A small grey picture, as a stand-in fracture photo. */
-function photo(): Buffer {
-  const png = new PNG({ width: 64, height: 48 });
+/** A small grey picture, as a stand-in fracture photo; another height gives other bytes. */
+function photo(height = 48): Buffer {
+  const png = new PNG({ width: 64, height });
   for (let i = 0; i < png.data.length; i += 4) {
     png.data[i] = png.data[i + 1] = png.data[i + 2] = (i / 4) % 64 < 32 ? 90 : 170;
     png.data[i + 3] = 255;
@@ -90,6 +95,44 @@ describe('trace in chromium', () => {
     const pdf = await (await page.request.get(href ?? '')).body();
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
     expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it('attaches a photo through the item page as a technician, and shows the server refusing a file that is not what it claims', async () => {
+    const { context, page } = await rig.newPage('desktop');
+    await signInAs(rig, page, 'technician');
+    await page.goto(`/trace/${encodeURIComponent(life.halfB)}`);
+    await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent(), { timeout: 10_000 }).toBe(life.halfB);
+    expect(await page.getByTestId('attachment').count()).toBe(0);
+    const form = page.getByTestId('attachment-upload');
+
+    // Text named .png: the server checks the first bytes against the PNG signature and says no (415).
+    await form.getByLabel('File').setInputFiles({ name: 'not-a-photo.png', mimeType: 'image/png', buffer: Buffer.from('just some words, not a picture\n') });
+    await form.getByRole('button', { name: 'Attach' }).click();
+    await expect.poll(() => form.getByTestId('attachment-upload-error').textContent(), { timeout: 10_000 }).toContain('does not look like image/png');
+    expect(await page.getByTestId('attachment').count()).toBe(0);
+
+    await form.getByLabel('File').setInputFiles({ name: 'half-b-face.png', mimeType: 'image/png', buffer: photo(40) });
+    expect(await form.getByLabel('Kind').inputValue()).toBe('photo');
+    await form.getByLabel('Note').fill('fracture face, half B');
+    await form.getByRole('button', { name: 'Attach' }).click();
+    await expect.poll(() => form.getByTestId('attachment-upload-done').textContent(), { timeout: 10_000 }).toContain('Attached half-b-face.png');
+    const listed = page.getByTestId('attachment');
+    await expect.poll(() => listed.count(), { timeout: 10_000 }).toBe(1);
+    expect(await listed.textContent()).toContain('half-b-face.png');
+    expect(await listed.textContent()).toContain('fracture face, half B');
+    await expect.poll(() => listed.locator('img').evaluate((el) => (el as HTMLImageElement).naturalHeight), { timeout: 10_000 }).toBe(40);
+    const steps = await page.getByTestId('timeline').locator('li[data-type]').evaluateAll((els) => els.map((e) => e.getAttribute('data-type')));
+    expect(steps.at(-1)).toBe('attached');
+    await rig.screenshot(page, 'trace-attach-desktop');
+
+    // The auditor reads the trace but may not record events, so no form shows.
+    const auditor = await rig.newPage('desktop');
+    await signInAuditor(rig, auditor.page);
+    await auditor.page.goto(`/trace/${encodeURIComponent(life.halfB)}`);
+    await expect.poll(() => auditor.page.getByTestId('attachment').count(), { timeout: 10_000 }).toBe(1);
+    expect(await auditor.page.getByTestId('attachment-upload').count()).toBe(0);
+    await auditor.context.close();
     await context.close();
   });
 

@@ -6,9 +6,11 @@ import { buttonClass, Button } from '../../components/ui/button';
 import { Panel } from '../../components/ui/detail-list';
 import { PageHeader } from '../../components/ui/page-header';
 import { StateBadge } from '../../components/ui/state-badge';
+import { useCan } from '../../features/auth/api/queries';
 import { SearchBox } from '../../features/search/components/search-box';
 import { auditPackHref, traceQueries } from '../../features/trace/api/queries';
 import { AnomalyList } from '../../features/trace/components/anomaly-list';
+import { AttachmentUpload } from '../../features/trace/components/attachment-upload';
 import { Attachments } from '../../features/trace/components/attachments';
 import { ChainStatus } from '../../features/trace/components/chain-status';
 import { Genealogy } from '../../features/trace/components/genealogy';
@@ -17,6 +19,7 @@ import { Timeline } from '../../features/trace/components/timeline';
 function TraceOf({ code }: { code: string }) {
   const [files, setFiles] = useState<'presence' | 'rehash'>('presence');
   const trace = useQuery(traceQueries.detail(code, files));
+  const canAttach = useCan('events.record');
   if (trace.isPending) return <p className="text-body text-ink-500">Tracing {code} …</p>;
   if (trace.isError) {
     return (
@@ -68,6 +71,7 @@ function TraceOf({ code }: { code: string }) {
         <AnomalyList anomalies={t.anomalies} />
       </Panel>
       <Panel title={`Attachments (${t.attachments.length})`}>
+        {canAttach ? <AttachmentUpload itemCode={t.item.code} /> : null}
         <Attachments trace={t} />
       </Panel>
       <Panel title={`Timeline (${t.events.length} events)`}>
