@@ -11,7 +11,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { gzipSync } from 'node:zlib';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { launchChromium } from './lib/chromium';
 import { createApp, createContext, type AppContext } from '../server/app';
 import { loadConfig } from '../server/config';
 import { createSequelize } from '../server/db';
@@ -45,11 +46,7 @@ export async function startScanBrowser(ctx: AppContext): Promise<ScanBrowser> {
   });
   const addr = server.address();
   const baseUrl = `http://127.0.0.1:${typeof addr === 'object' && addr ? addr.port : 0}`;
-  const browser = await chromium.launch({
-    executablePath: '/usr/bin/chromium',
-    headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'],
-  });
+  const browser = await launchChromium();
   const shots = path.join(root, '.test-artifacts', 'screenshots');
   mkdirSync(shots, { recursive: true });
   return {

@@ -1,6 +1,9 @@
 import type { Transaction } from 'sequelize';
-import type { EventSignature, LedgerEvent } from '../../shared/domain/ledger/event-hash';
-import type { EventType, ItemKind, ProjectionState } from '../../shared/domain/ledger/state-machine';
+import type { EventSignature } from '../../shared/domain/ledger/event-hash';
+import type { EventError, RecordedEvent } from '../../shared/schemas/events';
+
+// The API's answer shapes are defined once in shared/, where the client reads them too.
+export type { EventError, EventView, ItemSummary, RecordedEvent } from '../../shared/schemas/events';
 import type { Role } from '../../shared/permissions';
 import type { z } from 'zod';
 
@@ -11,38 +14,6 @@ import type { z } from 'zod';
 export type LedgerActor =
   | { kind: 'user'; id: number; role: Role }
   | { kind: 'instrument'; id: number; stationId: number; stationCode: string; eventTypes: readonly string[] };
-
-/** A stored custody event as the API shows it: the hashed body, its hash and its row id. */
-export type EventView = LedgerEvent & { id: number };
-
-/** An item's state after an event, with what may follow. */
-export interface ItemSummary {
-  code: string;
-  kind: ItemKind;
-  state: ProjectionState;
-  allowed: EventType[];
-  container: string | null;
-  station: string | null;
-}
-
-/** An event recorded now (201) or found under its idempotency key (200). */
-export interface RecordedEvent {
-  status: 200 | 201;
-  replayed: boolean;
-  event: EventView;
-  item: ItemSummary;
-  /** Codes of half A and half B when this event is a fractured `tested`. */
-  halves: string[];
-  /** Out-of-tolerance readings and other things a person should look at; empty when none. */
-  flags: string[];
-}
-
-/** Why an event was refused, in the API's error shape. */
-export interface EventError {
-  code: string;
-  message: string;
-  details?: unknown;
-}
 
 /** An event that was refused: nothing was written to the ledger; the refusal was logged. */
 export interface RefusedEvent {

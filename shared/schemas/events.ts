@@ -1,7 +1,7 @@
 /** Custody events as clients post them: one scan, or a batch of scans (offline sync, cells). */
 import { z } from 'zod';
-import { EVENT_TYPES } from '../domain/ledger/state-machine';
-import { HashHex } from '../domain/ledger/event-hash';
+import { EVENT_TYPES, type EventType, type ItemKind, type ProjectionState } from '../domain/ledger/state-machine';
+import { HashHex, type LedgerEvent } from '../domain/ledger/event-hash';
 
 /** Most events one POST /api/events/batch may carry. */
 export const MAX_BATCH_EVENTS = 500;
@@ -89,3 +89,35 @@ export const ItemEventsQuerySchema = z.object({
   after: z.coerce.number().int().min(0).default(0),
   limit: z.coerce.number().int().min(1).max(1000).default(500),
 });
+
+/** A stored custody event as the API shows it: the hashed body, its hash and its row id. */
+export type EventView = LedgerEvent & { id: number };
+
+/** An item's state after an event, with what may follow. */
+export interface ItemSummary {
+  code: string;
+  kind: ItemKind;
+  state: ProjectionState;
+  allowed: EventType[];
+  container: string | null;
+  station: string | null;
+}
+
+/** An event recorded now (201) or found under its idempotency key (200): POST /api/events answers this. */
+export interface RecordedEvent {
+  status: 200 | 201;
+  replayed: boolean;
+  event: EventView;
+  item: ItemSummary;
+  /** Codes of half A and half B when this event is a fractured `tested`. */
+  halves: string[];
+  /** Out-of-tolerance readings and other things a person should look at; empty when none. */
+  flags: string[];
+}
+
+/** Why an event was refused, in the API's error shape. */
+export interface EventError {
+  code: string;
+  message: string;
+  details?: unknown;
+}

@@ -1,7 +1,8 @@
 import { mkdirSync } from 'node:fs';
 import type { Server } from 'node:http';
 import path from 'node:path';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { launchChromium } from '../../scripts/lib/chromium';
 import { createApp } from '../../server/app';
 import { createTestContext, type TestContext } from '../support';
 
@@ -35,12 +36,7 @@ export async function startBrowserRig(): Promise<BrowserRig> {
   });
   const addr = server.address();
   const baseUrl = `http://127.0.0.1:${typeof addr === 'object' && addr ? addr.port : 0}`;
-  const browser = await chromium.launch({
-    executablePath: '/usr/bin/chromium',
-    headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update',
-      '--disable-sync', '--no-first-run', '--disable-quic'],
-  });
+  const browser = await launchChromium();
   mkdirSync(SCREENSHOT_DIR, { recursive: true });
   return {
     t,

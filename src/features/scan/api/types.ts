@@ -1,32 +1,8 @@
 /** The shapes the scanner reads from the ledger API. */
 import type { EventType, ItemKind, ProjectionState } from '../../../../shared/domain/ledger/state-machine';
+import type { EventError, RecordedEvent } from '../../../../shared/schemas/events';
 
-/** An item's state after an event, as POST /api/events answers. */
-export interface ItemSummary {
-  code: string;
-  kind: ItemKind;
-  state: ProjectionState;
-  allowed: EventType[];
-  container: string | null;
-  station: string | null;
-}
-
-/** A recorded (201) or replayed (200) event. */
-export interface RecordedEvent {
-  status: 200 | 201;
-  replayed: boolean;
-  event: { hash: string; seq: number; type: EventType; item: string; occurredAt: string };
-  item: ItemSummary;
-  halves: string[];
-  flags: string[];
-}
-
-/** The API's error body. */
-export interface EventError {
-  code: string;
-  message: string;
-  details?: unknown;
-}
+export type { EventError, ItemSummary, RecordedEvent } from '../../../../shared/schemas/events';
 
 /** POST /api/events/batch: one result per event, in order. */
 export interface BatchAnswer {
