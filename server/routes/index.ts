@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import { authRouter } from './auth/router';
 import { stationOperatorRouter } from './station-operator/router';
+import { floorRouter } from './floor/router';
 import { healthRouter } from './health/router';
 import { usersRouter } from './users/router';
 import { stationsRouter } from './stations/router';
@@ -31,6 +32,7 @@ import { anomaliesRouter } from './anomalies/router';
 export function apiRouter(): Router {
   const router = Router();
   router.use('/health', healthRouter());
+  router.use('/floor', floorRouter());
   router.use('/auth/station-operator', stationOperatorRouter());
   router.use('/auth', authRouter());
   router.use('/users', usersRouter());

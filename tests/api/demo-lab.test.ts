@@ -32,6 +32,22 @@ describe('the demo lab', () => {
     expect(result.eventsChecked).toBeGreaterThan(30);
   });
 
+  it('GET /api/floor counts items by state and the work waiting at each station', async () => {
+    const auditor = await t.ctx.models.User.findOne({ where: { role: 'auditor' } });
+    const agent = await signIn(t, auditor!, DEMO_USERS.find((u) => u.role === 'auditor')!.password);
+    const res = await agent.get('/api/floor').expect(200);
+    const count = (kind: string, state: string) => res.body.states.find((s: { kind: string; state: string }) => s.kind === kind && s.state === state)?.count;
+    expect(count('specimen', 'broken')).toBe(2);
+    expect(count('half', 'retained')).toBe(2);
+    const at = (code: string) => res.body.stations.find((s: { code: string }) => s.code === code);
+    // The gauge holds the two measured specimens; the bins hold the two binned halves; the saw the held one.
+    expect(at('GAUGE-1')).toMatchObject({ count: 2 });
+    expect(at('BINS-1')).toMatchObject({ count: 2 });
+    expect(at('SAW-1')).toMatchObject({ count: 1 });
+    expect(at('STORE-1')).toMatchObject({ count: 0, oldestSince: null });
+    expect(res.body.eventsLast24h).toBeGreaterThan(30);
+  });
+
   it('lets each demo person sign in with the printed password', async () => {
     for (const u of DEMO_USERS) {
       const user = await t.ctx.models.User.findOne({ where: { email: u.email } });
