@@ -3,17 +3,10 @@
  * rebuilt projections with the stored ones, prints each difference, and exits 1 if there is any.
  * Nothing stored is changed.
  */
-import { createSequelize } from '../server/db';
 import { rebuildProjections } from '../server/commands/rebuild-projections';
-import { registerNativeHash } from '../server/ledger/native-hash';
-import { prepareDatabase } from './lib/embedded-db';
+import { runLedgerScript } from './lib/ledger-script';
 
-registerNativeHash();
-
-const db = await prepareDatabase(process.env.DATA_DIR ?? '.data');
-const sequelize = createSequelize(db.appUrl, { poolMax: 2 });
-let code = 1;
-try {
+await runLedgerScript(async (sequelize) => {
   const started = Date.now();
   const report = await rebuildProjections(sequelize);
   for (const d of report.differences) {
@@ -21,11 +14,5 @@ try {
   }
   const seconds = ((Date.now() - started) / 1000).toFixed(1);
   console.log(`Rebuilt ${report.itemsChecked} items from ${report.eventsReplayed} events in ${seconds} s: ${report.differences.length} difference(s).`);
-  code = report.differences.length === 0 ? 0 : 1;
-} catch (err) {
-  console.error(err);
-} finally {
-  await sequelize.close();
-  db.cluster?.stop();
-}
-process.exit(code);
+  return report.differences.length === 0;
+});
