@@ -1,6 +1,8 @@
 import { PNG } from 'pngjs';
 import type { Page } from 'playwright-core';
+import { getGeometry } from '../../shared/domain/specimen-geometries';
 import type { Role } from '../../shared/permissions';
+import { nominalFor } from '../../shared/schemas/specimens';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createUser, signedInAs, TEST_PASSWORD } from '../factories';
 import { buildLife, type Life } from '../api/trace-fixtures';
@@ -133,6 +135,26 @@ describe('trace in chromium', () => {
     await expect.poll(() => auditor.page.getByTestId('attachment').count(), { timeout: 10_000 }).toBe(1);
     expect(await auditor.page.getByTestId('attachment-upload').count()).toBe(0);
     await auditor.context.close();
+    await context.close();
+  });
+
+  it('leads from the specimen page to its trace and its results (phone)', async () => {
+    const { context, page } = await rig.newPage('phone');
+    await signInAuditor(rig, page);
+    // The ledger fixture registers the specimen with empty nominal sizes; intake stores them from the geometry, so do the same here.
+    const geometry = getGeometry('astm-e8-flat-sheet-12.5');
+    if (!geometry) throw new Error('the fixture geometry is gone');
+    await rig.t.owner.query(`UPDATE specimens SET nominal = $2 WHERE item_id = (SELECT id FROM items WHERE code = $1)`, {
+      bind: [life.specimen, JSON.stringify(nominalFor(geometry, null))],
+    });
+    await page.goto(`/specimens/${encodeURIComponent(life.specimen)}`);
+    await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent(), { timeout: 15_000 }).toBe(life.specimen);
+    await rig.screenshot(page, 'specimen-links-phone');
+    expect(await page.getByTestId('specimen-trace-link').getAttribute('href')).toBe(`/trace/${encodeURIComponent(life.specimen)}`);
+    expect(await page.getByTestId('specimen-results-link').getAttribute('href')).toBe(`/results/specimens/${encodeURIComponent(life.specimen)}`);
+    await page.getByTestId('specimen-trace-link').click();
+    await page.waitForURL((u) => u.pathname === `/trace/${encodeURIComponent(life.specimen)}`);
+    await expect.poll(() => page.getByTestId('chain-verdict').textContent(), { timeout: 15_000 }).toContain('Chain intact');
     await context.close();
   });
 
