@@ -16,7 +16,9 @@ export function loader({ params }: LoaderFunctionArgs) {
   return queryClient.ensureQueryData(specimenQueries.detail(params.idOrCode ?? ''));
 }
 
-function sized(size: { nominal: string; tolerance: string | null }): string {
+function sized(size: { nominal: string; tolerance: string | null } | undefined): string {
+  // A specimen registered without its nominal sizes (older records) still shows, with a dash.
+  if (!size) return '—';
   return size.tolerance ? `${size.nominal} ± ${size.tolerance} mm` : `${size.nominal} mm`;
 }
 
