@@ -16,7 +16,7 @@ import { consumeSignature } from '../auth/signatures';
 import { AppError, notFound } from '../errors';
 import { isRecorded, type LedgerActor } from '../ledger/types';
 import { recordEvents, refusalError } from './record-event';
-import { renderBatchDocument, type DocumentItem } from './disposal-document';
+import type { DocumentItem } from './disposal-document';
 import { containerPaths, judgeItem, loadActiveHolds, loadItemsByCode, loadLabSettings, type LabSettings, type RetainedItem } from './retention';
 
 /** The judged batch: a line per scanned code, and the items that may go, in scan order. */
@@ -273,6 +273,8 @@ export async function createBatch(ctx: AppContext, body: BatchCreate, actor: Led
       };
     });
     const statement = SIGNATURE_MEANINGS[signature.meaning];
+    // pdf-lib and the fonts load on the first document, not with every server.
+    const { renderBatchDocument } = await import('./disposal-document');
     const bytes = await renderBatchDocument({
       number: batchNumber,
       kind: body.kind,

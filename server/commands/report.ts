@@ -15,7 +15,7 @@ import type { AppContext } from '../app';
 import { consumeSignature } from '../auth/signatures';
 import { AppError, conflict, notFound } from '../errors';
 import { recordEvent } from './record-event';
-import { renderReportPdf, type ReportDocument, type ReportSpecimen } from './report-pdf';
+import type { ReportDocument, ReportSpecimen } from './report-pdf';
 import { currentResults, effectiveEvent, loadOrderSpecimens, resolveSpecification, verdictOf, type ResultsRow, type SpecimenRow } from './results';
 
 /** Words for each verdict, as reports print them. */
@@ -240,6 +240,8 @@ export async function issueReport(
       signature: { name: user.name, email: user.email, meaning: signature.meaning, statement: SIGNATURE_MEANINGS.report, signedAt: signature.signedAt },
       specimens,
     };
+    // pdf-lib and the fonts load on the first report, not with every server.
+    const { renderReportPdf } = await import('./report-pdf');
     const pdf = await renderReportPdf(doc);
     const sha256 = createHash('sha256').update(pdf).digest('hex');
     const signatureRecord = { signer: signature.signer, name: user.name, meaning: signature.meaning, statement: SIGNATURE_MEANINGS.report, signedAt: signature.signedAt };

@@ -1,7 +1,9 @@
 import { randomUUID } from 'node:crypto';
 import type { NextFunction, Request, Response } from 'express';
 import { QueryTypes, type Transaction } from 'sequelize';
-import { LabelError, listStocks, renderLabelsPdf, type RenderRequest, type Stock } from '../../../labels/render';
+import { LabelError } from '../../../labels/errors';
+import type { RenderRequest } from '../../../labels/render';
+import { listStocks, type Stock } from '../../../labels/stocks';
 import type { BadgeLabel, BagLabel, ContainerLabel, HalfLabel, LabelKind, SpecimenLabel } from '../../../labels/layouts';
 import { parseCode } from '../../../shared/domain/codes';
 import { allowedNext, type ItemKind } from '../../../shared/domain/ledger/state-machine';
@@ -303,6 +305,8 @@ export async function printLabels(req: Request, res: Response): Promise<void> {
 
   let pdf: Uint8Array;
   try {
+    // The renderer (bwip-js, pdf-lib, fonts) loads on the first print, not with every server.
+    const { renderLabelsPdf } = await import('../../../labels/render');
     pdf = await renderLabelsPdf({
       kind: body.kind,
       stock: stock.key,

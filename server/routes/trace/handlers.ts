@@ -1,7 +1,6 @@
 import type { Request, Response } from 'express';
 import { can } from '../../../shared/permissions';
 import { TraceQuerySchema } from '../../../shared/schemas/trace';
-import { buildAuditJsonl, buildAuditPdf } from '../../commands/audit-pack';
 import { buildTrace } from '../../commands/trace';
 import { parsed } from '../../middleware/validate';
 
@@ -19,6 +18,8 @@ export async function getTrace(req: Request, res: Response): Promise<void> {
 
 /** GET /api/items/:code/audit.jsonl: every event of the item and everything under it, with hashes and seals. */
 export async function getAuditJsonl(req: Request, res: Response): Promise<void> {
+  // The audit pack (with pdf-lib) loads on the first export, not with every server.
+  const { buildAuditJsonl } = await import('../../commands/audit-pack');
   const pack = await buildAuditJsonl(req.ctx, String(req.params.code));
   res.setHeader('Content-Type', 'application/x-ndjson; charset=utf-8');
   res.setHeader('Content-Disposition', `attachment; filename="${packName(String(req.params.code), 'jsonl')}"`);
@@ -28,6 +29,7 @@ export async function getAuditJsonl(req: Request, res: Response): Promise<void> 
 
 /** GET /api/items/:code/audit.pdf: the audit report, verified at the moment it is made. */
 export async function getAuditPdf(req: Request, res: Response): Promise<void> {
+  const { buildAuditPdf } = await import('../../commands/audit-pack');
   const { bytes } = await buildAuditPdf(req.ctx, String(req.params.code));
   res.setHeader('Content-Type', 'application/pdf');
   res.setHeader('Content-Disposition', `inline; filename="${packName(String(req.params.code), 'pdf')}"`);
