@@ -8,6 +8,7 @@ import { PDFDocument, type PDFFont } from 'pdf-lib';
 import { EmbeddedFaces } from '../../labels/fonts';
 import type { Face } from '../../labels/layouts';
 import type { BatchKind } from '../../shared/schemas/disposals';
+import { localDateTimeOf } from '../../shared/domain/retention';
 
 /** One item line of a batch document. */
 export interface DocumentItem {
@@ -51,16 +52,7 @@ export function bothTimes(isoTime: string, timeZone: string): string {
   const date = new Date(isoTime);
   const utc = `${date.toISOString().slice(0, 19).replace('T', ' ')} UTC`;
   if (timeZone === 'UTC') return utc;
-  const local = new Intl.DateTimeFormat('sv-SE', {
-    timeZone,
-    year: 'numeric',
-    month: '2-digit',
-    day: '2-digit',
-    hour: '2-digit',
-    minute: '2-digit',
-    second: '2-digit',
-    hourCycle: 'h23',
-  }).format(date);
+  const local = localDateTimeOf(date, timeZone);
   return `${utc} (${local} ${timeZone})`;
 }
 

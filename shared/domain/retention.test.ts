@@ -2,6 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { addMonths, addYears } from 'date-fns';
 import {
+  localDateTimeOf,
   addRetentionPeriod,
   disposableStates,
   disposalCheck,
@@ -341,5 +342,14 @@ describe('disposalCheck', () => {
     );
     const rejected = { ...base, kind: 'specimen' as const, code: 'S26-00160-D', state: 'rejected' as const, specimen: null };
     expect(disposalCheck(rejected, late).status).toBe('may_go');
+  });
+});
+
+describe('localDateTimeOf', () => {
+  it('reads the wall clock of an instant in the lab zone', () => {
+    // Source: the zone rules as Node's Intl applies them [run]: London is on GMT+1 in July, Chicago on CST (UTC−6) in January.
+    expect(localDateTimeOf('2026-07-01T09:30:00.000Z', 'Europe/London')).toBe('2026-07-01 10:30:00');
+    expect(localDateTimeOf('2026-01-15T03:05:09.000Z', 'America/Chicago')).toBe('2026-01-14 21:05:09');
+    expect(localDateTimeOf('2026-01-15T03:05:09.000Z', 'UTC')).toBe('2026-01-15 03:05:09');
   });
 });

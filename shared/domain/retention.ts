@@ -120,6 +120,12 @@ export function localDateOf(value: Date | string, timeZone: string): LocalDate {
   return `${pad(year, 4)}-${pad(month)}-${pad(day)}`;
 }
 
+/** The local date and time of an instant in a time zone (IANA name), as "YYYY-MM-DD HH:mm:ss". */
+export function localDateTimeOf(value: Date | string, timeZone: string): string {
+  const { year, month, day, hour, minute, second } = wallClock(instant(value), timeZone);
+  return `${pad(year, 4)}-${pad(month)}-${pad(day)} ${pad(hour)}:${pad(minute)}:${pad(second)}`;
+}
+
 /** How far a zone's wall clock is ahead of UTC at an instant, in milliseconds. */
 export function zoneOffsetMs(value: Date | string, timeZone: string): number {
   const time = instant(value);
