@@ -1,8 +1,6 @@
-/** One field-level problem, named by its path in the request. */
-export interface FieldIssue {
-  path: string;
-  message: string;
-}
+import type { FieldIssue } from '../shared/schemas/errors';
+
+export type { FieldIssue } from '../shared/schemas/errors';
 
 /**
  * An error the API answers with `{ error: { code, message, details } }`. Throw it from any handler;

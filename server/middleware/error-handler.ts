@@ -1,5 +1,6 @@
 import type { NextFunction, Request, Response } from 'express';
 import { ZodError } from 'zod';
+import type { ErrorBody } from '../../shared/schemas/errors';
 import { AppError } from '../errors';
 import { fieldIssues } from './validate';
 import { logger } from '../logger';
@@ -40,7 +41,8 @@ function toAppError(err: unknown): AppError {
 export function errorHandler(err: unknown, req: Request, res: Response, _next: NextFunction): void {
   const appErr = toAppError(err);
   if (appErr.status >= 500) logger.error({ err, path: req.path }, 'request failed');
-  res.status(appErr.status).json({
+  const body: ErrorBody = {
     error: { code: appErr.code, message: appErr.message, ...(appErr.details !== undefined ? { details: appErr.details } : {}) },
-  });
+  };
+  res.status(appErr.status).json(body);
 }

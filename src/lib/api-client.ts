@@ -1,8 +1,6 @@
-/** One field-level problem from the server, as `{ path, message }`. */
-export interface FieldIssue {
-  path: string;
-  message: string;
-}
+import type { ErrorBody, FieldIssue } from '../../shared/schemas/errors';
+
+export type { FieldIssue } from '../../shared/schemas/errors';
 
 /** The server's error shape `{ error: { code, message, details } }`, as a typed error. */
 export class ApiError extends Error {
@@ -48,7 +46,7 @@ export async function api<T>(path: string, init: RequestInit & { json?: unknown 
   const type = res.headers.get('content-type') ?? '';
   const body = type.includes('application/json') ? await res.json() : null;
   if (!res.ok) {
-    const e = body?.error;
+    const e = (body as Partial<ErrorBody> | null)?.error;
     throw new ApiError(res.status, e?.code ?? 'http_' + res.status, e?.message ?? `The server answered ${res.status}.`, e?.details);
   }
   return body as T;
