@@ -46,6 +46,8 @@ export async function startStandInSmtp(opts: { port?: number; dir?: string } = {
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ['STARTTLS'],
+    // Loopback only: asking DNS who 127.0.0.1 is can only delay the greeting.
+    disableReverseLookup: true,
     logger: false,
     banner: 'Halfmark stand-in SMTP (keeps mail, delivers nothing)',
     onAuth: (_auth, _session, cb) => cb(null, { user: 'stand-in' }),

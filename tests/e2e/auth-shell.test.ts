@@ -94,9 +94,13 @@ describe('invitation and account screens in the browser', () => {
     await page.getByLabel('Password').fill(TEST_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL((u) => u.pathname === '/users');
-    await page.getByRole('textbox', { name: 'E-mail' }).fill('new.hire@lab.example');
-    await page.getByRole('textbox', { name: 'Name' }).fill('Noor Hatherley');
-    await page.getByRole('button', { name: 'Send invitation' }).click();
+    // The address changes before the People screen replaces the sign-in form (its code loads
+    // first), so wait for the invitation form itself: the sign-in form has an E-mail box too.
+    const invite = page.getByRole('form', { name: 'Invite someone' });
+    await invite.waitFor({ timeout: 30_000 });
+    await invite.getByRole('textbox', { name: 'E-mail' }).fill('new.hire@lab.example');
+    await invite.getByRole('textbox', { name: 'Name' }).fill('Noor Hatherley');
+    await invite.getByRole('button', { name: 'Send invitation' }).click();
     await expect.poll(() => page.getByRole('status').textContent(), { timeout: 60_000 }).toContain('Invitation sent');
     await rig.screenshot(page, 'auth-invite-phone');
     await context.close();
