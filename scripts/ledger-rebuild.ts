@@ -1,7 +1,8 @@
 /**
- * npm run ledger:rebuild: replays every item's events through the state machine, compares the
- * rebuilt projections with the stored ones, prints each difference, and exits 1 if there is any.
- * Nothing stored is changed.
+ * npm run ledger:rebuild: replays every item's events through the state machine into a temporary
+ * scratch table, compares it in SQL with the stored projections, prints each difference, and
+ * exits 1 if there is any. Runs as the application role, in one read-only snapshot; nothing
+ * stored is changed and the scratch table goes with the transaction.
  */
 import { rebuildProjections } from '../server/commands/rebuild-projections';
 import { runLedgerScript } from './lib/ledger-script';
