@@ -3,12 +3,13 @@
  * whoever last scanned their badge and typed their PIN there. The token names that operator and
  * is bound to the session it was issued to, so it is worthless on another session or device.
  */
-import { createHash, createHmac } from 'node:crypto';
+import { createHash, createHmac, type KeyObject } from 'node:crypto';
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import jwt from 'jsonwebtoken';
 import { can } from '../../shared/permissions';
 import { OPERATOR_TOKEN_HEADER } from '../../shared/schemas/scan';
 import { AppError } from '../errors';
+import { hmacKey } from './session';
 import type { Actor } from '../middleware/auth';
 import type { User } from '../models/user';
 
@@ -34,8 +35,8 @@ interface OperatorClaims {
  * The key operator tokens are signed with, derived from the session secret so that an operator
  * token can never pass as a session cookie (or the other way round).
  */
-function operatorKey(sessionSecret: string): string {
-  return createHmac('sha256', sessionSecret).update('halfmark station operator token v1').digest('base64url');
+function operatorKey(sessionSecret: string): KeyObject {
+  return hmacKey(createHmac('sha256', sessionSecret).update('halfmark station operator token v1').digest('base64url'));
 }
 
 /** A short stamp of a PIN hash; it changes whenever the PIN is set again or cleared. */

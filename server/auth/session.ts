@@ -1,3 +1,4 @@
+import { createSecretKey, type KeyObject } from 'node:crypto';
 import jwt from 'jsonwebtoken';
 import type { Response } from 'express';
 
@@ -14,15 +15,30 @@ interface SessionClaims {
   exp: number;
 }
 
+const keys = new Map<string, KeyObject>();
+
+/**
+ * The HS256 key for a secret, made once. Handed a string, jsonwebtoken first tries to read it as
+ * a public key and catches the failure on every call, which cost a tenth of a busy server's CPU.
+ */
+export function hmacKey(secret: string): KeyObject {
+  let key = keys.get(secret);
+  if (!key) {
+    key = createSecretKey(Buffer.from(secret, 'utf8'));
+    keys.set(secret, key);
+  }
+  return key;
+}
+
 /** Signs a short-lived session token for a user. */
 export function signSession(secret: string, userId: number, version: number): string {
-  return jwt.sign({ ver: version }, secret, { algorithm: 'HS256', subject: String(userId), expiresIn: SESSION_TTL_SECONDS });
+  return jwt.sign({ ver: version }, hmacKey(secret), { algorithm: 'HS256', subject: String(userId), expiresIn: SESSION_TTL_SECONDS });
 }
 
 /** Verifies a session token; null when tampered, expired or malformed. */
 export function verifySession(secret: string, token: string): { userId: number; version: number; issuedAt: number } | null {
   try {
-    const claims = jwt.verify(token, secret, { algorithms: ['HS256'] }) as SessionClaims;
+    const claims = jwt.verify(token, hmacKey(secret), { algorithms: ['HS256'] }) as SessionClaims;
     const userId = Number(claims.sub);
     if (!Number.isInteger(userId)) return null;
     return { userId, version: claims.ver ?? 0, issuedAt: claims.iat };
