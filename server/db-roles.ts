@@ -1,5 +1,5 @@
 import type { Sequelize } from 'sequelize';
-import { MIGRATIONS_TABLE } from './migrator';
+import { MIGRATIONS_TABLE } from './schema-version';
 
 const ident = (s: string) => `"${s.replace(/"/g, '""')}"`;
 

@@ -2,6 +2,7 @@ import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import type { QueryInterface, Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug } from 'umzug';
+import { MIGRATIONS_TABLE } from './schema-version';
 
 export interface MigrationContext {
   queryInterface: QueryInterface;
@@ -13,8 +14,6 @@ interface MigrationModule {
   down: (params: { context: MigrationContext }) => Promise<void>;
 }
 
-/** The table where umzug records which migrations ran. */
-export const MIGRATIONS_TABLE = 'schema_migrations';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -36,11 +35,4 @@ export function createMigrator(sequelize: Sequelize): Umzug<MigrationContext> {
     storage: new SequelizeStorage({ sequelize, tableName: MIGRATIONS_TABLE }),
     logger: undefined,
   });
-}
-
-/** The name of the last migration applied, or null on an empty database. */
-export async function lastMigration(sequelize: Sequelize): Promise<string | null> {
-  const [rows] = await sequelize.query(`SELECT name FROM ${MIGRATIONS_TABLE} ORDER BY name DESC LIMIT 1`);
-  const first = (rows as { name: string }[])[0];
-  return first ? first.name : null;
 }

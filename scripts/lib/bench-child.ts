@@ -17,7 +17,9 @@ export interface ServerChild {
  * waits for its "LISTENING" line (or fails after `timeoutMs`).
  */
 export function startServerChild(env: Record<string, string>, timeoutMs = 60_000): Promise<ServerChild> {
-  const child = spawn(process.execPath, ['--import', 'tsx', path.join(root, 'scripts/lib/bench-server.ts')], {
+  // BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the server there when it stops.
+  const profile = process.env.BENCH_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_CPU_PROF}`] : [];
+  const child = spawn(process.execPath, [...profile, '--import', 'tsx', path.join(root, 'scripts/lib/bench-server.ts')], {
     cwd: root,
     env: { ...process.env, LOG_LEVEL: 'silent', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],

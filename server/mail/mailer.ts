@@ -1,6 +1,10 @@
-import nodemailer, { type Transporter } from 'nodemailer';
+import type { Transporter } from 'nodemailer';
 import type { Config } from '../config';
-import { readMailFolder, startStandInSmtp, type StandInSmtp, type StoredMail } from './stand-in';
+import type { StandInSmtp, StoredMail } from './stand-in';
+
+// nodemailer and the stand-in's SMTP server load with the first message: most requests send none.
+const loadNodemailer = async () => (await import('nodemailer')).default;
+const loadStandIn = () => import('./stand-in');
 
 /** One message to send. */
 export interface OutgoingMail {
@@ -26,26 +30,27 @@ export interface Mailer {
 export function createMailer(config: Config): Mailer {
   const from = config.SMTP_FROM;
   if (config.SMTP_HOST) {
-    const transport: Transporter = nodemailer.createTransport({
-      host: config.SMTP_HOST,
-      port: config.SMTP_PORT,
-      secure: config.SMTP_SECURE,
-      auth: config.SMTP_USER ? { user: config.SMTP_USER, pass: config.SMTP_PASS ?? '' } : undefined,
-    });
+    const smtp = { host: config.SMTP_HOST, port: config.SMTP_PORT, secure: config.SMTP_SECURE };
+    const auth = config.SMTP_USER ? { user: config.SMTP_USER, pass: config.SMTP_PASS ?? '' } : undefined;
+    let transport: Promise<Transporter> | null = null;
     const dir = config.SMTP_OUTBOX_DIR;
     return {
       send: async (mail) => {
-        await transport.sendMail({ from, ...mail });
+        transport ??= loadNodemailer().then((nodemailer) => nodemailer.createTransport({ ...smtp, auth }));
+        await (await transport).sendMail({ from, ...mail });
       },
-      outbox: dir ? async () => readMailFolder(dir) : null,
-      close: async () => transport.close(),
+      outbox: dir ? async () => (await loadStandIn()).readMailFolder(dir) : null,
+      close: async () => {
+        if (transport) (await transport).close();
+      },
     };
   }
   let standIn: Promise<StandInSmtp> | null = null;
   let transport: Transporter | null = null;
   const ready = async (): Promise<{ server: StandInSmtp; transport: Transporter }> => {
-    standIn ??= startStandInSmtp();
+    standIn ??= loadStandIn().then(({ startStandInSmtp }) => startStandInSmtp());
     const server = await standIn;
+    const nodemailer = await loadNodemailer();
     transport ??= nodemailer.createTransport({ host: server.host, port: server.port, secure: false, ignoreTLS: true });
     return { server, transport };
   };

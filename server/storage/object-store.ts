@@ -6,15 +6,7 @@
 import { createHash } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import type { Readable } from 'node:stream';
-import {
-  CreateBucketCommand,
-  GetObjectCommand,
-  HeadBucketCommand,
-  HeadObjectCommand,
-  PutObjectCommand,
-  S3Client,
-  S3ServiceException,
-} from '@aws-sdk/client-s3';
+import type { S3Client } from '@aws-sdk/client-s3';
 import type { Config } from '../config';
 
 /** A stored object read back: its bytes as a stream, and what a Range request got. */
@@ -47,8 +39,13 @@ export function objectKeyOf(sha256: string): string {
   return `sha256/${sha256.slice(0, 2)}/${sha256.slice(2, 4)}/${sha256}`;
 }
 
-function isMissing(error: unknown): boolean {
-  if (error instanceof S3ServiceException) {
+// The AWS SDK is large; a server that never touches an attachment does not load it.
+type Sdk = typeof import('@aws-sdk/client-s3');
+let sdkLoading: Promise<Sdk> | null = null;
+const loadSdk = (): Promise<Sdk> => (sdkLoading ??= import('@aws-sdk/client-s3'));
+
+function isMissing(sdk: Sdk, error: unknown): boolean {
+  if (error instanceof sdk.S3ServiceException) {
     return error.$metadata.httpStatusCode === 404 || error.name === 'NotFound' || error.name === 'NoSuchKey' || error.name === 'NoSuchBucket';
   }
   return false;
@@ -62,45 +59,51 @@ function isMissing(error: unknown): boolean {
 export function createObjectStore(config: Config): ObjectStore | null {
   if (!config.S3_ENDPOINT && !config.S3_BUCKET) return null;
   const bucket = config.S3_BUCKET ?? 'halfmark-attachments';
-  const client = new S3Client({
-    region: config.S3_REGION,
-    ...(config.S3_ENDPOINT ? { endpoint: config.S3_ENDPOINT } : {}),
-    forcePathStyle: config.S3_FORCE_PATH_STYLE,
-    ...(config.S3_ACCESS_KEY_ID && config.S3_SECRET_ACCESS_KEY
-      ? { credentials: { accessKeyId: config.S3_ACCESS_KEY_ID, secretAccessKey: config.S3_SECRET_ACCESS_KEY } }
-      : {}),
-    // Checksums only where S3 demands them: stand-ins and older S3-compatible stores do not
-    // understand the streamed trailing checksums newer SDKs send by default. Our own SHA-256
-    // is the integrity check that matters, and the verifier re-hashes every object.
-    requestChecksumCalculation: 'WHEN_REQUIRED',
-    responseChecksumValidation: 'WHEN_REQUIRED',
-  });
+  const makeClient = (sdk: Sdk): S3Client =>
+    new sdk.S3Client({
+      region: config.S3_REGION,
+      ...(config.S3_ENDPOINT ? { endpoint: config.S3_ENDPOINT } : {}),
+      forcePathStyle: config.S3_FORCE_PATH_STYLE,
+      ...(config.S3_ACCESS_KEY_ID && config.S3_SECRET_ACCESS_KEY
+        ? { credentials: { accessKeyId: config.S3_ACCESS_KEY_ID, secretAccessKey: config.S3_SECRET_ACCESS_KEY } }
+        : {}),
+      // Checksums only where S3 demands them: stand-ins and older S3-compatible stores do not
+      // understand the streamed trailing checksums newer SDKs send by default. Our own SHA-256
+      // is the integrity check that matters, and the verifier re-hashes every object.
+      requestChecksumCalculation: 'WHEN_REQUIRED',
+      responseChecksumValidation: 'WHEN_REQUIRED',
+    });
+  let ready: Promise<{ sdk: Sdk; client: S3Client }> | null = null;
+  const connect = () => (ready ??= loadSdk().then((sdk) => ({ sdk, client: makeClient(sdk) })));
   let bucketReady: Promise<void> | null = null;
-  const ensureBucket = (): Promise<void> => {
+  const ensureBucket = async (): Promise<{ sdk: Sdk; client: S3Client }> => {
+    const s3 = await connect();
+    const { sdk, client } = s3;
     bucketReady ??= (async () => {
       try {
-        await client.send(new HeadBucketCommand({ Bucket: bucket }));
+        await client.send(new sdk.HeadBucketCommand({ Bucket: bucket }));
       } catch (error) {
-        if (!isMissing(error)) throw error;
-        await client.send(new CreateBucketCommand({ Bucket: bucket }));
+        if (!isMissing(sdk, error)) throw error;
+        await client.send(new sdk.CreateBucketCommand({ Bucket: bucket }));
       }
     })().catch((error: unknown) => {
       // Try again on the next call rather than remember a passing outage.
       bucketReady = null;
       throw error;
     });
-    return bucketReady;
+    await bucketReady;
+    return s3;
   };
 
   const get = async (key: string, range?: string): Promise<StoredObject | null> => {
-    await ensureBucket();
+    const { sdk, client } = await ensureBucket();
     try {
-      const out = await client.send(new GetObjectCommand({ Bucket: bucket, Key: key, ...(range ? { Range: range } : {}) }));
+      const out = await client.send(new sdk.GetObjectCommand({ Bucket: bucket, Key: key, ...(range ? { Range: range } : {}) }));
       const contentRange = out.ContentRange ?? null;
       const total = contentRange ? Number(/\/(\d+)$/.exec(contentRange)?.[1] ?? out.ContentLength ?? 0) : Number(out.ContentLength ?? 0);
       return { body: out.Body as Readable, contentLength: Number(out.ContentLength ?? 0), totalSize: total, contentRange };
     } catch (error) {
-      if (isMissing(error)) return null;
+      if (isMissing(sdk, error)) return null;
       throw error;
     }
   };
@@ -108,18 +111,18 @@ export function createObjectStore(config: Config): ObjectStore | null {
   return {
     bucket,
     putFile: async (key, filePath, size, contentType) => {
-      await ensureBucket();
+      const { sdk, client } = await ensureBucket();
       await client.send(
-        new PutObjectCommand({ Bucket: bucket, Key: key, Body: createReadStream(filePath), ContentLength: size, ContentType: contentType }),
+        new sdk.PutObjectCommand({ Bucket: bucket, Key: key, Body: createReadStream(filePath), ContentLength: size, ContentType: contentType }),
       );
     },
     sizeOf: async (key) => {
-      await ensureBucket();
+      const { sdk, client } = await ensureBucket();
       try {
-        const head = await client.send(new HeadObjectCommand({ Bucket: bucket, Key: key }));
+        const head = await client.send(new sdk.HeadObjectCommand({ Bucket: bucket, Key: key }));
         return Number(head.ContentLength ?? 0);
       } catch (error) {
-        if (isMissing(error)) return null;
+        if (isMissing(sdk, error)) return null;
         throw error;
       }
     },
@@ -136,6 +139,8 @@ export function createObjectStore(config: Config): ObjectStore | null {
       }
       return { sha256: hash.digest('hex'), size };
     },
-    close: () => client.destroy(),
+    close: () => {
+      void ready?.then(({ client }) => client.destroy());
+    },
   };
 }

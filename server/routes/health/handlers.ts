@@ -1,5 +1,5 @@
 import type { Request, Response } from 'express';
-import { lastMigration } from '../../migrator';
+import { lastMigration } from '../../schema-version';
 
 const HEALTH_TIMEOUT_MS = 3_000;
 
