@@ -14,6 +14,9 @@ import { registerNativeHash } from './ledger/native-hash';
 import { createMailer, type Mailer } from './mail/mailer';
 import { createObjectStore, type ObjectStore } from './storage/object-store';
 
+/** Files of the built client that are never served from a browser's HTTP cache without asking. */
+const REVALIDATED_FILES = new Set(['sw.js', 'manifest.webmanifest', 'index.html']);
+
 /** What every part of the server may need: the configuration and the database. */
 export interface AppContext {
   config: Config;
@@ -81,7 +84,17 @@ export function createApp(ctx: AppContext, opts: { clientDir?: string } = {}): E
   const clientDir = opts.clientDir;
   if (clientDir && existsSync(path.join(clientDir, 'index.html'))) {
     app.use('/assets', express.static(path.join(clientDir, 'assets'), { immutable: true, maxAge: '1y' }));
-    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    app.use(
+      express.static(clientDir, {
+        index: false,
+        maxAge: '1h',
+        setHeaders: (res, file) => {
+          // The app-shell worker and what it reads at install must be checked on every visit, so
+          // a deploy reaches phones at their next visit instead of an hour later.
+          if (REVALIDATED_FILES.has(path.basename(file))) res.setHeader('Cache-Control', 'no-cache');
+        },
+      }),
+    );
     app.get('/{*splat}', (_req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
       res.sendFile(path.join(clientDir, 'index.html'));
