@@ -8,11 +8,20 @@ import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { AppProvider } from './app/provider';
 import { AppRouter } from './app/router';
+import { UpdateNotice } from './features/app-worker/components/update-notice';
+import { startAppWorker } from './features/app-worker/register';
+import { keepSessionOnDevice } from './features/auth/last-session';
+import { queryClient } from './lib/query-client';
+
+// The signed-in person is kept on the device and the app shell cached, so /scan opens offline.
+keepSessionOnDevice(queryClient);
+startAppWorker();
 
 createRoot(document.getElementById('root')!).render(
   <StrictMode>
     <AppProvider>
       <AppRouter />
+      <UpdateNotice />
     </AppProvider>
   </StrictMode>,
 );

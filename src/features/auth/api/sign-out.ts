@@ -1,5 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
+import { forgetSession } from '../last-session';
 
 /** Signs out on this device and forgets everything cached for the user. */
 export function useSignOut() {
@@ -7,6 +8,7 @@ export function useSignOut() {
   return useMutation({
     mutationFn: () => api<null>('/auth/logout', { method: 'POST' }),
     onSettled: () => {
+      forgetSession();
       qc.clear();
     },
   });
