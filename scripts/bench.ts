@@ -68,6 +68,16 @@ async function seed(appUrl: string, secret: string): Promise<{ userId: number; c
   return { userId, codes };
 }
 
+/** CPU seconds (user + system) a process has used so far, from /proc/<pid>/stat. */
+function cpuSecondsOf(pid: number): number {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]?.split(' ') ?? [];
+    return (Number(fields[11]) + Number(fields[12])) / 100;
+  } catch {
+    return 0;
+  }
+}
+
 function fmt(r: PhaseResult): string {
   return `${r.name.padEnd(30)} ${String(r.clients).padStart(3)}  ${r.eventsPerSecond.toFixed(0).padStart(8)} ev/s  p50 ${r.p50Ms.toFixed(1).padStart(6)} ms  p99 ${r.p99Ms.toFixed(1).padStart(6)} ms  errors ${r.errors}`;
 }
@@ -107,8 +117,14 @@ try {
   const batchBody = () => ({
     events: nextCodes(50).map((code) => ({ idempotencyKey: randomUUID(), type: 'label_printed', itemCode: code, occurredAt: new Date().toISOString() })),
   });
-  const http = (name: string, clients: number, batch: boolean, seconds = SECONDS) =>
-    runHttpPhase({ name, url: server.url, path: batch ? '/api/events/batch' : '/api/events', headers, clients, seconds, next: batch ? batchBody : scanBody, eventsPer: batch ? 50 : 1 });
+  // The server's CPU time per event: steadier than throughput on a machine shared with others.
+  const cpuPerEvent = new Map<string, number>();
+  const http = async (name: string, clients: number, batch: boolean, seconds = SECONDS) => {
+    const before = cpuSecondsOf(server.pid);
+    const result = await runHttpPhase({ name, url: server.url, path: batch ? '/api/events/batch' : '/api/events', headers, clients, seconds, next: batch ? batchBody : scanBody, eventsPer: batch ? 50 : 1 });
+    cpuPerEvent.set(`${name} ${clients}`, ((cpuSecondsOf(server.pid) - before) * 1000) / Math.max(1, result.events));
+    return result;
+  };
   const base = (name: string, clients: number, perTransaction: number) =>
     runBaselinePhase({ name, url: appUrl, poolSize: POOL, clients, seconds: SECONDS, perTransaction, nextCodes, userId });
 
@@ -127,7 +143,8 @@ try {
   for (const [app, baseline] of results) {
     console.log(fmt(app));
     console.log(fmt(baseline));
-    console.log(`${''.padEnd(30)}      app/baseline ${(app.eventsPerSecond / baseline.eventsPerSecond).toFixed(2)}\n`);
+    const cpu = cpuPerEvent.get(`${app.name} ${app.clients}`) ?? 0;
+    console.log(`${''.padEnd(30)}      app/baseline ${(app.eventsPerSecond / baseline.eventsPerSecond).toFixed(2)}   server CPU ${cpu.toFixed(2)} ms/event\n`);
   }
   console.log(`Server peak resident memory: ${peakRss.toFixed(0)} MB sampled (VmHWM ${hwm.toFixed(0)} MB).`);
 

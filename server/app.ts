@@ -13,6 +13,7 @@ import { defineModels, type Models } from './models/registry';
 import { registerNativeHash } from './ledger/native-hash';
 import { createMailer, type Mailer } from './mail/mailer';
 import { createObjectStore, type ObjectStore } from './storage/object-store';
+import { createSessionUsers, type SessionUsers } from './auth/session-users';
 
 /** Files of the built client that are never served from a browser's HTTP cache without asking. */
 const REVALIDATED_FILES = new Set(['sw.js', 'manifest.webmanifest', 'index.html']);
@@ -26,12 +27,22 @@ export interface AppContext {
   mailer: Mailer;
   /** Attachment storage (S3-compatible); null when none is configured. */
   storage: ObjectStore | null;
+  /** The users behind session cookies, remembered for a few seconds. */
+  sessionUsers: SessionUsers;
 }
 
 /** Binds the models to the connection and bundles what the handlers need. */
 export function createContext(config: Config, sequelize: Sequelize): AppContext {
   registerNativeHash();
-  return { config, sequelize, models: defineModels(sequelize), mailer: createMailer(config), storage: createObjectStore(config) };
+  const models = defineModels(sequelize);
+  return {
+    config,
+    sequelize,
+    models,
+    mailer: createMailer(config),
+    storage: createObjectStore(config),
+    sessionUsers: createSessionUsers(models.User),
+  };
 }
 
 declare module 'express-serve-static-core' {

@@ -63,7 +63,7 @@ export async function authenticate(req: Request, res: Response, next: NextFuncti
   const secret = req.ctx.config.SESSION_SECRET;
   const claims = verifySession(secret, token);
   if (!claims) throw new AppError(401, 'session_invalid', 'Your session has ended or is not valid. Sign in again.');
-  const user = await req.ctx.models.User.findByPk(claims.userId);
+  const user = await req.ctx.sessionUsers.get(claims.userId);
   if (!user || !user.active || user.sessionVersion !== claims.version) {
     throw new AppError(401, 'session_invalid', 'Your session has ended. Sign in again.');
   }
