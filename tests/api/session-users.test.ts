@@ -15,7 +15,7 @@ async function usersQueries(work: () => Promise<unknown>): Promise<number> {
   const hook = (sql: string) => {
     if (/FROM "users"/.test(sql)) count++;
   };
-  const options = t.sequelize.options as { logging?: unknown };
+  const options = (t.sequelize as unknown as { options: { logging?: unknown } }).options;
   const before = options.logging;
   options.logging = hook;
   try {
