@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
+  anomalyClock,
   ANOMALY_CODES,
   ASTM_D618_PROCEDURE_A,
   astmD618ProcedureA,
@@ -548,5 +549,86 @@ describe('detectAnomalies: order', () => {
       ['critical', 'missing_step', 3],
       ['warning', 'out_of_sequence', 3],
     ]);
+  });
+});
+
+describe('anomalyClock', () => {
+  const at = (input: AnomalyInput) => anomalyClock(input);
+  const gauge = chain(HAPPY.slice(0, 3));
+  const input = (events: AnomalyEvent[], now: string): AnomalyInput => ({ item: SPECIMEN, kind: 'specimen', events, now, stationKinds: STATIONS });
+  const shape = (list: { code: string; severity: string; eventSeq?: number }[]) => list.map((a) => [a.code, a.severity, a.eventSeq]);
+
+  it('names the first millisecond a stay still going on passes its dwell limit', () => {
+    // At the gauge since 20 h; 72 h is the default limit (DEFAULT_DWELL_HOURS).
+    const clock = at(input(gauge, iso(20 + 71)));
+    expect(clock).toEqual({ changesAt: new Date(T0 + (20 + 72) * 3_600_000 + 1).toISOString(), running: false });
+    const changesAt = Date.parse(clock.changesAt!);
+    expect(detectAnomalies(input(gauge, new Date(changesAt - 1).toISOString()))).toEqual([]);
+    expect(codes(detectAnomalies(input(gauge, clock.changesAt!)))).toEqual(['long_dwell']);
+  });
+
+  it('says a long dwell going on keeps counting, with the same findings', () => {
+    expect(at(input(gauge, iso(20 + 73)))).toEqual({ changesAt: null, running: true });
+    const now = detectAnomalies(input(gauge, iso(20 + 73)));
+    const later = detectAnomalies(input(gauge, iso(20 + 500)));
+    expect(shape(later)).toEqual(shape(now));
+    expect(later[0]?.details.hours).toBe(500);
+  });
+
+  it('finds nothing to wait for in a store, after custody ends, or in a container', () => {
+    expect(at(input(chain(HAPPY), iso(50)))).toEqual({ changesAt: null, running: false });
+    const returned = chain([...HAPPY, { type: 'returned', h: 45, station: 'DISPATCH-1' }]);
+    expect(at(input(returned, iso(50)))).toEqual({ changesAt: null, running: false });
+    const bin = chain([{ type: 'registered', h: 0, station: 'BINS-1' }]);
+    expect(at({ item: BIN_A, kind: 'container', events: bin, now: iso(1), stationKinds: STATIONS })).toEqual({ changesAt: null, running: false });
+  });
+
+  it('asks to be judged again at once while a device time lies ahead of now', () => {
+    const ahead = chain([...HAPPY.slice(0, 2), { type: 'measured', h: 60, station: 'GAUGE-1' }]);
+    expect(at(input(ahead, iso(50))).changesAt).toBe(new Date(T0 + 50 * 3_600_000 + 1).toISOString());
+  });
+
+  it('is never late: before changesAt the findings stay the same ones, and the same words unless running', () => {
+    // Seeded walks over stations, containers, voids and steps back in time (mulberry32).
+    let a = 99;
+    const random = () => {
+      a = (a + 0x6d2b79f5) >>> 0;
+      let x = Math.imul(a ^ (a >>> 15), 1 | a);
+      x = (x + Math.imul(x ^ (x >>> 7), 61 | x)) ^ x;
+      return ((x ^ (x >>> 14)) >>> 0) / 4_294_967_296;
+    };
+    const pick = <T>(list: readonly T[]): T => list[Math.floor(random() * list.length)]!;
+    const types = ['cut', 'conditioning_started', 'conditioned', 'measured', 'tested', 'binned', 'retained', 'moved', 'returned', 'voided'];
+    let checked = 0;
+    for (let walk = 0; walk < 300; walk++) {
+      let h = 0;
+      const steps: Step[] = [{ type: 'registered', h: 0, station: pick(Object.keys(STATIONS)) }];
+      for (let i = 0; i < 1 + Math.floor(random() * 7); i++) {
+        h += random() < 0.15 ? -random() * 30 : random() * 90;
+        const type = pick(types);
+        steps.push({
+          type,
+          h,
+          station: random() < 0.8 ? pick([...Object.keys(STATIONS), 'BENCH-9']) : null,
+          container: random() < 0.4 ? pick([BIN_A, BAG]) : null,
+          payload: type === 'tested' ? { fractured: random() < 0.5 } : {},
+          ...(type === 'voided' ? { corrects: 1 + Math.floor(random() * (steps.length - 1)) + 1 } : {}),
+        });
+      }
+      const events = chain(steps);
+      const now = T0 + (h + random() * 200) * 3_600_000;
+      const base = input(events, new Date(now).toISOString());
+      const clock = anomalyClock(base);
+      const before = detectAnomalies(base);
+      const until = clock.changesAt === null ? now + 2_000 * 3_600_000 : Date.parse(clock.changesAt) - 1;
+      for (const later of [now + 1, (now + until) / 2, until].map(Math.floor)) {
+        if (later < now) continue;
+        const found = detectAnomalies({ ...base, now: new Date(later).toISOString() });
+        if (clock.running) expect(shape(found)).toEqual(shape(before));
+        else expect(found).toEqual(before);
+        checked++;
+      }
+    }
+    expect(checked).toBeGreaterThan(600);
   });
 });

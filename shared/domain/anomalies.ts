@@ -656,3 +656,44 @@ export function detectAnomalies(input: AnomalyInput): Anomaly[] {
       ANOMALY_CODES.indexOf(a.code) - ANOMALY_CODES.indexOf(b.code),
   );
 }
+
+/** How detectAnomalies' answer for one input goes on changing as `now` moves on. */
+export type AnomalyClock = {
+  /**
+   * The earliest instant after `now` at which a finding may appear or go, or change its code,
+   * severity or event: a stay still going on reaching its dwell limit, or device times still
+   * ahead of `now`. Null when no later `now` changes which findings there are. May be early,
+   * never late.
+   */
+  changesAt: string | null;
+  /**
+   * Whether a finding's message and details keep changing with `now` while the findings stay the
+   * same ones: a long dwell still going on counts its hours up to `now`.
+   */
+  running: boolean;
+};
+
+/**
+ * When detectAnomalies(input) could next answer differently only because `now` moved on, so a
+ * stored answer can be trusted until then. Reads the same stays and limits the detector does.
+ */
+export function anomalyClock(input: AnomalyInput): AnomalyClock {
+  const now = input.now instanceof Date ? input.now.getTime() : at(input.now);
+  const sorted = [...input.events].sort((a, b) => a.seq - b.seq);
+  let changesAt = Number.POSITIVE_INFINITY;
+  let running = false;
+  // A placement or stay measured against `now` may still grow into, or out of, an overlap with a
+  // stay that ends at a device time after `now`; until those times pass, judge again every time.
+  if (sorted.some((e) => at(e.occurredAt) > now)) changesAt = now + 1;
+  if (input.kind !== 'container') {
+    const ongoing = stays(input.kind, eventsInForce(sorted), now).find((s) => s.ongoing);
+    const limit = ongoing === undefined ? null : dwellLimit(input.stationKinds?.[ongoing.station], input.dwellLimitsHours ?? {});
+    if (ongoing !== undefined && limit !== null) {
+      const from = at(ongoing.from);
+      // The detector reports a stay longer than the limit, so the first whole millisecond past it.
+      if (now - from > limit * HOUR) running = true;
+      else changesAt = Math.min(changesAt, Math.floor(from + limit * HOUR) + 1);
+    }
+  }
+  return { changesAt: Number.isFinite(changesAt) ? new Date(changesAt).toISOString() : null, running };
+}
