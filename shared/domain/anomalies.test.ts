@@ -13,6 +13,7 @@ import {
   iso291Rule,
   mainPath,
   placementsOf,
+  type Anomaly,
   type AnomalyEvent,
   type AnomalyInput,
   type ConditioningRule,
@@ -583,9 +584,25 @@ describe('anomalyClock', () => {
     expect(at({ item: BIN_A, kind: 'container', events: bin, now: iso(1), stationKinds: STATIONS })).toEqual({ changesAt: null, running: false });
   });
 
-  it('asks to be judged again at once while a device time lies ahead of now', () => {
-    const ahead = chain([...HAPPY.slice(0, 2), { type: 'measured', h: 60, station: 'GAUGE-1' }]);
-    expect(at(input(ahead, iso(50))).changesAt).toBe(new Date(T0 + 50 * 3_600_000 + 1).toISOString());
+  it('names the millisecond an open placement grows into an overlap with a stay dated ahead of now', () => {
+    // Saw from 0 h, gauge from 10 h, then the frame dated 5 h (a device clock behind): the frame
+    // placement is open, and overlaps the saw's stay (until 10 h) more as now runs from 5 h to 10 h.
+    const back = chain([
+      { type: 'registered', h: 0, station: 'SAW-1' },
+      { type: 'measured', h: 10, station: 'GAUGE-1' },
+      { type: 'tested', h: 5, station: 'FRAME-2', payload: { fractured: false } },
+    ]);
+    const early = iso(5 + 1 / 60);
+    const clock = at(input(back, early));
+    // 120 s is the detector's default clock tolerance.
+    expect(clock).toEqual({ changesAt: new Date(T0 + 5 * 3_600_000 + 120_000 + 1).toISOString(), running: false });
+    const changesAt = Date.parse(clock.changesAt!);
+    expect(codes(detectAnomalies(input(back, new Date(changesAt - 1).toISOString())))).not.toContain('two_places');
+    expect(codes(detectAnomalies(input(back, clock.changesAt!)))).toContain('two_places');
+    // Past the tolerance the overlap keeps growing until 10 h, and the frame's 72 h limit comes at 77 h.
+    expect(at(input(back, iso(7)))).toEqual({ changesAt: new Date(T0 + 77 * 3_600_000 + 1).toISOString(), running: true });
+    const overlap = (h: number) => detectAnomalies(input(back, iso(h))).find((a) => a.code === 'two_places')?.details.overlapHours;
+    expect([overlap(7), overlap(9), overlap(12)]).toEqual([2, 4, 5]);
   });
 
   it('is never late: before changesAt the findings stay the same ones, and the same words unless running', () => {
@@ -600,11 +617,15 @@ describe('anomalyClock', () => {
     const pick = <T>(list: readonly T[]): T => list[Math.floor(random() * list.length)]!;
     const types = ['cut', 'conditioning_started', 'conditioned', 'measured', 'tested', 'binned', 'retained', 'moved', 'returned', 'voided'];
     let checked = 0;
-    for (let walk = 0; walk < 300; walk++) {
+    let changedThen = 0;
+    let overlapsGrew = 0;
+    for (let walk = 0; walk < 400; walk++) {
       let h = 0;
+      let latest = 0;
       const steps: Step[] = [{ type: 'registered', h: 0, station: pick(Object.keys(STATIONS)) }];
       for (let i = 0; i < 1 + Math.floor(random() * 7); i++) {
-        h += random() < 0.15 ? -random() * 30 : random() * 90;
+        h += random() < 0.25 ? -random() * 30 : random() * 90;
+        latest = Math.max(latest, h);
         const type = pick(types);
         steps.push({
           type,
@@ -616,19 +637,26 @@ describe('anomalyClock', () => {
         });
       }
       const events = chain(steps);
-      const now = T0 + (h + random() * 200) * 3_600_000;
+      // A third of the time before the latest device time, where open placements still grow into overlaps.
+      const now = T0 + (random() < 1 / 3 ? h + random() * (latest - h + 0.1) : h + random() * 200) * 3_600_000;
       const base = input(events, new Date(now).toISOString());
       const clock = anomalyClock(base);
       const before = detectAnomalies(base);
       const until = clock.changesAt === null ? now + 2_000 * 3_600_000 : Date.parse(clock.changesAt) - 1;
-      for (const later of [now + 1, (now + until) / 2, until].map(Math.floor)) {
+      for (const later of [now + 1, now + (until - now) / 8, (now + until) / 2, until].map(Math.floor)) {
         if (later < now) continue;
         const found = detectAnomalies({ ...base, now: new Date(later).toISOString() });
         if (clock.running) expect(shape(found)).toEqual(shape(before));
         else expect(found).toEqual(before);
+        const overlap = (list: Anomaly[]) => list.filter((f) => f.code === 'two_places').map((f) => f.details.overlapHours);
+        if (clock.running && JSON.stringify(overlap(found)) !== JSON.stringify(overlap(before))) overlapsGrew++;
         checked++;
       }
+      if (clock.changesAt !== null && JSON.stringify(detectAnomalies({ ...base, now: clock.changesAt })) !== JSON.stringify(before)) changedThen++;
     }
-    expect(checked).toBeGreaterThan(600);
+    // The walks reach both ways time acts: findings that appear at changesAt, and overlaps that grow.
+    expect(changedThen).toBeGreaterThan(50);
+    expect(overlapsGrew).toBeGreaterThan(5);
+    expect(checked).toBeGreaterThan(1_000);
   });
 });

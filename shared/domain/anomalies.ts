@@ -661,30 +661,29 @@ export function detectAnomalies(input: AnomalyInput): Anomaly[] {
 export type AnomalyClock = {
   /**
    * The earliest instant after `now` at which a finding may appear or go, or change its code,
-   * severity or event: a stay still going on reaching its dwell limit, or device times still
-   * ahead of `now`. Null when no later `now` changes which findings there are. May be early,
-   * never late.
+   * severity, event or the other record it names: a stay still going on reaching its dwell
+   * limit, or a placement still open growing into an overlap with a stay dated after `now`. Null
+   * when no later `now` changes which findings there are. May be early, never late.
    */
   changesAt: string | null;
   /**
    * Whether a finding's message and details keep changing with `now` while the findings stay the
-   * same ones: a long dwell still going on counts its hours up to `now`.
+   * same ones: a long dwell still going on, or an overlap still growing, counts its hours up to `now`.
    */
   running: boolean;
 };
 
 /**
  * When detectAnomalies(input) could next answer differently only because `now` moved on, so a
- * stored answer can be trusted until then. Reads the same stays and limits the detector does.
+ * stored answer can be trusted until then. Reads the same stays, placements and limits the
+ * detector does.
  */
 export function anomalyClock(input: AnomalyInput): AnomalyClock {
   const now = input.now instanceof Date ? input.now.getTime() : at(input.now);
+  const toleranceMs = (input.clockToleranceSeconds ?? 120) * 1000;
   const sorted = [...input.events].sort((a, b) => a.seq - b.seq);
   let changesAt = Number.POSITIVE_INFINITY;
   let running = false;
-  // A placement or stay measured against `now` may still grow into, or out of, an overlap with a
-  // stay that ends at a device time after `now`; until those times pass, judge again every time.
-  if (sorted.some((e) => at(e.occurredAt) > now)) changesAt = now + 1;
   if (input.kind !== 'container') {
     const ongoing = stays(input.kind, eventsInForce(sorted), now).find((s) => s.ongoing);
     const limit = ongoing === undefined ? null : dwellLimit(input.stationKinds?.[ongoing.station], input.dwellLimitsHours ?? {});
@@ -693,6 +692,25 @@ export function anomalyClock(input: AnomalyInput): AnomalyClock {
       // The detector reports a stay longer than the limit, so the first whole millisecond past it.
       if (now - from > limit * HOUR) running = true;
       else changesAt = Math.min(changesAt, Math.floor(from + limit * HOUR) + 1);
+    }
+  }
+  // The same pairs twoPlaces compares. An open placement runs up to `now`, so its overlap with
+  // another grows while `now` is before the other's end (for ever when both are open).
+  const own = placementsOf(input.kind, input.item, sorted);
+  const piece = own[0]?.piece ?? input.item;
+  const candidates = [...own, ...(input.otherPlacements ?? []).filter((o) => o.item === input.item && o.piece === piece)];
+  for (let j = 0; j < candidates.length; j++) {
+    for (let i = 0; i < j; i++) {
+      const [a, b] = [candidates[i], candidates[j]];
+      if ((i >= own.length && j >= own.length) || placeOf(a) === placeOf(b)) continue;
+      if (a.until !== null && b.until !== null) continue;
+      const closedEnd = a.until === null ? (b.until === null ? Number.POSITIVE_INFINITY : span(b, now)[1]) : span(a, now)[1];
+      if (now >= closedEnd) continue;
+      const [aFrom, aUntil] = span(a, now);
+      const [bFrom, bUntil] = span(b, now);
+      const start = Math.max(aFrom, bFrom);
+      if (Math.min(aUntil, bUntil) - start > toleranceMs) running = true;
+      else if (closedEnd - start > toleranceMs) changesAt = Math.min(changesAt, Math.floor(start + toleranceMs) + 1);
     }
   }
   return { changesAt: Number.isFinite(changesAt) ? new Date(changesAt).toISOString() : null, running };
