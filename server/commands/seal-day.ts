@@ -8,6 +8,7 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 import { GENESIS_HASH } from '../../shared/domain/ledger/event-hash';
 import { computeSeal, dayEnd, nextDay, type Seal, type SealableEvent } from '../../shared/domain/ledger/seal';
 import { logger } from '../logger';
+import { sweepAnomalies } from './anomaly-findings';
 
 /** Key of the advisory lock sealing takes (any constant shared by every server of one ledger). */
 export const SEAL_LOCK_KEY = 7_261_584_210;
@@ -105,14 +106,21 @@ export interface SealScheduler {
 
 /**
  * Starts sealing finished days in the background: one pass at start, then every `intervalMs`
- * (with a little jitter so several servers do not all try at the same instant).
+ * (with a little jitter so several servers do not all try at the same instant). A pass that
+ * sealed a day also re-judges every item's anomalies from scratch (the nightly full sweep).
  */
 export function startSealScheduler(sequelize: Sequelize, intervalMs = 5 * 60_000): SealScheduler {
   let running: Promise<string[]> | null = null;
   const tick = () => {
     running ??= sealDueDays(sequelize)
-      .then((days) => {
-        if (days.length > 0) logger.info({ days }, 'ledger days sealed');
+      .then(async (days) => {
+        if (days.length > 0) {
+          logger.info({ days }, 'ledger days sealed');
+          // Requests only re-judge items that moved; once a day every chain is judged again.
+          await sweepAnomalies(sequelize, { full: true }).catch((err: unknown) => {
+            logger.error({ err }, 'the full anomaly sweep failed; requests still sweep what changed');
+          });
+        }
         return days;
       })
       .catch((err: unknown) => {

@@ -1,7 +1,8 @@
 /**
- * Anomalies across the whole lab: every item's chain read a chunk at a time, each judged by the
- * same detector the item page uses, with every half's placements to hand so a piece claimed by
- * two codes, or in two places, shows on both.
+ * Anomalies across the whole lab judged afresh: every item's chain read a chunk at a time, each
+ * judged by the same detector the item page uses, with every half's placements to hand so a piece
+ * claimed by two codes, or in two places, shows on both. GET /api/anomalies answers from stored
+ * findings instead (anomaly-findings.ts); this full computation is what they must equal.
  */
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { AnomalySeverity } from '../../shared/domain/anomalies';
@@ -33,8 +34,9 @@ async function everyItem(sequelize: Sequelize): Promise<{ items: ScopeItem[]; ev
 }
 
 /**
- * GET /api/anomalies: every anomaly in the lab, most serious first (then by item code and
- * event), one page of them, with counts per severity over all of them.
+ * Every anomaly in the lab judged at `now`, most serious first (then by item code and event), one
+ * page of them, with counts per severity over all of them: the answer GET /api/anomalies gives
+ * from its stored findings, computed the slow way.
  */
 export async function labAnomalies(sequelize: Sequelize, query: AnomalyListQuery, now = new Date()): Promise<AnomalyPage> {
   const { items, events } = await everyItem(sequelize);

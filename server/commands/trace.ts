@@ -4,7 +4,7 @@
  * checked, and the anomalies found in it. The audit pack and the lab-wide anomaly list reuse the
  * loaders here.
  */
-import { QueryTypes, type Sequelize } from 'sequelize';
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import {
   ConditioningRuleSchema,
   detectAnomalies,
@@ -100,13 +100,17 @@ export async function traceScope(sequelize: Sequelize, row: ItemRow, opts: { con
   return [self];
 }
 
-/** The events of some items, each item's in seq order, items in the order given. */
-export async function loadEvents(sequelize: Sequelize, items: readonly ScopeItem[]): Promise<Map<string, EventView[]>> {
+/** The events of some items, each item's in seq order, items in the order given; inside `transaction` when given. */
+export async function loadEvents(
+  sequelize: Sequelize,
+  items: readonly ScopeItem[],
+  transaction?: Transaction,
+): Promise<Map<string, EventView[]>> {
   const byItem = new Map<string, EventView[]>(items.map((i) => [i.code, []]));
   if (items.length === 0) return byItem;
   const rows = await sequelize.query<EventRow>(
     `SELECT ${EVENT_COLUMNS} FROM custody_events e WHERE e.item_id = ANY($1::bigint[]) ORDER BY e.item_id, e.seq, e.id`,
-    { bind: [items.map((i) => i.id)], type: QueryTypes.SELECT },
+    { bind: [items.map((i) => i.id)], type: QueryTypes.SELECT, transaction },
   );
   for (const row of rows) byItem.get(row.item_code)?.push(eventFromRow(row));
   return byItem;
@@ -118,16 +122,23 @@ export interface AnomalySetting {
   conditioning: Map<number, { rule: ConditioningRule; thicknessMm: number | null }>;
 }
 
-/** Loads station kinds and the conditioning rules of the orders some specimens belong to. */
-export async function loadAnomalySetting(sequelize: Sequelize, specimenIds: readonly number[]): Promise<AnomalySetting> {
-  const stations = await sequelize.query<{ code: string; kind: StationKind }>('SELECT code, kind FROM stations', { type: QueryTypes.SELECT });
+/** Loads station kinds and the conditioning rules of the orders some specimens belong to; inside `transaction` when given. */
+export async function loadAnomalySetting(
+  sequelize: Sequelize,
+  specimenIds: readonly number[],
+  transaction?: Transaction,
+): Promise<AnomalySetting> {
+  const stations = await sequelize.query<{ code: string; kind: StationKind }>('SELECT code, kind FROM stations', {
+    type: QueryTypes.SELECT,
+    transaction,
+  });
   const conditioning = new Map<number, { rule: ConditioningRule; thicknessMm: number | null }>();
   if (specimenIds.length > 0) {
     const rows = await sequelize.query<{ item_id: string; conditioning: unknown; thickness_mm: string | null }>(
       `SELECT s.item_id, o.conditioning, sa.thickness_mm FROM specimens s
          JOIN samples sa ON sa.id = s.sample_id JOIN orders o ON o.id = sa.order_id
         WHERE s.item_id = ANY($1::bigint[]) AND o.conditioning IS NOT NULL`,
-      { bind: [specimenIds], type: QueryTypes.SELECT },
+      { bind: [specimenIds], type: QueryTypes.SELECT, transaction },
     );
     for (const row of rows) {
       const rule = ConditioningRuleSchema.safeParse(row.conditioning);

@@ -93,12 +93,16 @@ export interface TraceView {
   canExport: boolean;
 }
 
-/** GET /api/anomalies: paged, optionally one severity or one code. */
+/**
+ * GET /api/anomalies: paged, optionally one severity or one code. `refresh=full` judges every
+ * item again before answering, instead of only those whose judgement may be out of date.
+ */
 export const AnomalyListQuerySchema = z.object({
   page: z.coerce.number().int().min(1).default(1),
   pageSize: z.coerce.number().int().min(1).max(200).default(50),
   severity: z.enum(ANOMALY_SEVERITIES as readonly ['info', 'warning', 'critical'], { error: 'severity is info, warning or critical.' }).optional(),
   code: z.enum(ANOMALY_CODES, { error: `code is one of: ${ANOMALY_CODES.join(', ')}.` }).optional(),
+  refresh: z.enum(['full'], { error: 'refresh is full (or left out).' }).optional(),
 });
 export type AnomalyListQuery = z.infer<typeof AnomalyListQuerySchema>;
 
