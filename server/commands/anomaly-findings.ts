@@ -7,10 +7,10 @@
  * An item is due when its projection row moved on (a new event, a void, a rebuilt state), an
  * event above the sweep's watermark names it, its order's conditioning rule or its sample's
  * thickness changed, a station it stood at changed kind, or the time until which its judgement
- * holds has come (a stay reaching its dwell limit; device times still ahead of the clock). Items
- * tied to a due half through the piece it claims are judged with it, since "claimed twice" is
- * found on both. A long dwell still going on is re-worded at read time, so its hours are those of
- * the stated check time. Every due item's whole chain is re-verified; tampering with old rows of
+ * holds has come (anomalyClock: a stay reaching its dwell limit, an open placement growing into an
+ * overlap). Items tied to a due half through the piece it claims are judged with it, since
+ * "claimed twice" is found on both. A long dwell or an overlap still growing is re-worded at read
+ * time, so its hours are those of the stated check time. Every due item's whole chain is re-verified; tampering with old rows of
  * items that did not move is the ledger verifier's to find (GET /api/ledger/verify), and a full
  * sweep (`?refresh=full`, and after each day is sealed) re-judges everything.
  */
@@ -346,8 +346,8 @@ function toLabAnomaly(row: FindingRow): LabAnomaly {
 }
 
 /**
- * A long dwell still going on counts its hours up to the check time: the page's rows of such
- * items are worded again at `at`. The findings themselves do not change until the item is due.
+ * A long dwell or an overlap still growing counts its hours up to the check time: the page's rows
+ * of such items are worded again at `at`. The findings themselves do not change until the item is due.
  */
 async function reword(sequelize: Sequelize, transaction: Transaction, rows: readonly FindingRow[], at: Date): Promise<LabAnomaly[]> {
   const page = rows.map(toLabAnomaly);
