@@ -10,9 +10,10 @@
  * holds has come (anomalyClock: a stay reaching its dwell limit, an open placement growing into an
  * overlap). Items tied to a due half through the piece it claims are judged with it, since
  * "claimed twice" is found on both. A long dwell or an overlap still growing is re-worded at read
- * time, so its hours are those of the stated check time. Every due item's whole chain is re-verified; tampering with old rows of
- * items that did not move is the ledger verifier's to find (GET /api/ledger/verify), and a full
- * sweep (`?refresh=full`, and after each day is sealed) re-judges everything.
+ * time, so its hours are those of the stated check time. Every due item's whole chain is
+ * re-verified; tampering with old rows of items that did not move is the ledger verifier's to find
+ * (GET /api/ledger/verify), and a full sweep (`?refresh=full`, and after each day is sealed)
+ * re-judges everything.
  */
 import { QueryTypes, Transaction, type Sequelize } from 'sequelize';
 import { anomalyClock, placementsOf, type AnomalyClock, type AnomalySeverity, type Placement } from '../../shared/domain/anomalies';
