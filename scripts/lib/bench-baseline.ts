@@ -1,19 +1,20 @@
 /**
- * The bench's baseline: the same database transaction the server runs for a scan (lock the item
- * rows, hash the event, append it and update the projection, with the very same SQL and the same
- * hashing and state-machine code), done directly with pg, without HTTP, sign-in or validation.
+ * The bench's baseline: the same database transaction the server runs for a scan (BEGIN with the
+ * lock of the item rows, hash the event, then the append and projection update with COMMIT: the
+ * very same two messages and the same hashing and state-machine code), done directly with pg,
+ * without HTTP, sign-in or validation.
  */
 import { randomUUID } from 'node:crypto';
 import pg from 'pg';
 import { computeEventHash, EVENT_FORMAT_VERSION, type HashedEvent } from '../../shared/domain/ledger/event-hash';
 import { applyEvent, type Projection } from '../../shared/domain/ledger/state-machine';
-import { LOCK_ITEMS_SQL, WRITE_EVENTS_SQL } from '../../server/ledger/sql';
+import { closingMessage, openingMessage } from '../../server/ledger/sql';
 import { summarise, type PhaseResult } from './bench-load';
 
 async function transaction(client: pg.PoolClient, codes: string[], userId: number): Promise<void> {
-  await client.query('BEGIN');
   try {
-    const { rows } = await client.query<{ id: string; code: string; projection: Projection }>(LOCK_ITEMS_SQL, [codes, [], []]);
+    const opened = (await client.query(openingMessage([codes, [], []], null))) as unknown as pg.QueryResult<{ id: string; code: string; projection: Projection }>[];
+    const rows = opened[1]?.rows ?? [];
     const now = new Date().toISOString();
     const events: Record<string, unknown>[] = [];
     const items: Record<string, unknown>[] = [];
@@ -45,8 +46,7 @@ async function transaction(client: pg.PoolClient, codes: string[], userId: numbe
       });
       items.push({ id: Number(row.id), state: p.state, projection: p, last_seq: p.lastSeq, head_hash: p.headHash, last_event_at: now, container_code: p.container, station_code: p.station });
     }
-    await client.query(WRITE_EVENTS_SQL, [JSON.stringify(events), JSON.stringify(items), events.length]);
-    await client.query('COMMIT');
+    await client.query(closingMessage([JSON.stringify(events), JSON.stringify(items), events.length]));
   } catch (error) {
     await client.query('ROLLBACK');
     throw error;

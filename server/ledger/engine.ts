@@ -27,7 +27,16 @@ import type { AreaPolicy } from '../../shared/domain/measurement';
 import { containerProblem, type ContainerType } from './container-rules';
 import { areaPolicyOf, completeMeasuredPayload } from './measured';
 import { eventFromRow, type EventRow } from './rows';
-import { EVENTS_BY_KEYS_SQL, INSERT_REFUSALS_SQL, LOCK_ITEMS_SQL, WRITE_EVENTS_SQL } from './sql';
+import type pg from 'pg';
+import {
+  closingMessage,
+  EVENTS_BY_KEYS_SQL,
+  IDEMPOTENCY_KEY_CONSTRAINT,
+  INSERT_REFUSALS_SQL,
+  LOCK_ITEMS_SQL,
+  openingMessage,
+  WRITE_EVENTS_SQL,
+} from './sql';
 import { conflict } from '../errors';
 import type { EventOutcome, EventView, ItemSummary, RecordOptions, RefusedEvent } from './types';
 
@@ -200,6 +209,93 @@ function workItem(row: LockRow): WorkItem {
 const ITEM_SELECT = `SELECT i.id, i.code, i.kind, i.state, i.projection, i.last_seq, i.head_hash, i.parent_item_id, i.half,
   NULL::text AS geometry_key, NULL::text AS area_policy, NULL::json AS stations, NULL::json AS refs FROM items i`;
 
+type WriteRow = { inserted: { id: number; key: string }[]; updated: number };
+type LockParams = [string[], string[], string[]];
+type WriteParams = [string, string, number];
+
+/**
+ * How a unit reaches the database. `open` sends the unit's first reads (the lock, and the
+ * stored idempotency keys when asked); `close` its last write (or none). A unit in a caller's
+ * transaction sends them as ordinary statements and the caller commits; a unit in its own
+ * transaction sends BEGIN with the first and COMMIT with the last (see PipelinedDb).
+ */
+interface UnitDb {
+  query<T extends object>(sql: string, bind: unknown[]): Promise<T[]>;
+  open(lock: LockParams, keys: string[] | null): Promise<{ rows: LockRow[]; stored: EventRow[] }>;
+  close(write: WriteParams | null): Promise<WriteRow | null>;
+}
+
+/** A unit inside a Sequelize transaction that its caller commits. */
+class TransactionDb implements UnitDb {
+  constructor(
+    private readonly sequelize: Sequelize,
+    private readonly transaction: Transaction,
+  ) {}
+
+  query<T extends object>(sql: string, bind: unknown[]): Promise<T[]> {
+    return this.sequelize.query<T>(sql, { bind, transaction: this.transaction, type: QueryTypes.SELECT });
+  }
+
+  async open(lock: LockParams, keys: string[] | null): Promise<{ rows: LockRow[]; stored: EventRow[] }> {
+    const rows = await this.query<LockRow>(LOCK_ITEMS_SQL, lock);
+    const stored = keys === null ? [] : await this.query<EventRow>(EVENTS_BY_KEYS_SQL, [keys]);
+    return { rows, stored };
+  }
+
+  async close(write: WriteParams | null): Promise<WriteRow | null> {
+    if (write === null) return null;
+    const [row] = await this.query<WriteRow>(WRITE_EVENTS_SQL, write);
+    return row ?? null;
+  }
+}
+
+/**
+ * A unit in a transaction of its own on one pooled connection, with BEGIN sent in the same
+ * message as the lock and COMMIT in the same message as the write (the simple query protocol
+ * takes several statements at once): two round trips for a scan instead of four. A failing
+ * statement skips the rest of its message, so a failed write is never committed; the caller
+ * then calls rollback().
+ */
+class PipelinedDb implements UnitDb {
+  private state: 'idle' | 'open' | 'done' = 'idle';
+
+  constructor(private readonly client: pg.ClientBase) {}
+
+  async query<T extends object>(sql: string, bind: unknown[]): Promise<T[]> {
+    if (this.state !== 'open') throw new Error('a ledger statement outside its transaction');
+    return (await this.client.query(sql, bind)).rows as T[];
+  }
+
+  async open(lock: LockParams, keys: string[] | null): Promise<{ rows: LockRow[]; stored: EventRow[] }> {
+    this.state = 'open';
+    const results = (await this.client.query(openingMessage(lock, keys))) as unknown as pg.QueryResult[];
+    return { rows: (results[1]?.rows ?? []) as LockRow[], stored: (results[2]?.rows ?? []) as EventRow[] };
+  }
+
+  async close(write: WriteParams | null): Promise<WriteRow | null> {
+    if (this.state !== 'open') return null;
+    const result = await this.client.query(closingMessage(write));
+    this.state = 'done';
+    if (write === null) return null;
+    const results = result as unknown as pg.QueryResult[];
+    return (results[0]?.rows[0] as WriteRow | undefined) ?? null;
+  }
+
+  /** Ends an open transaction without keeping anything. */
+  async rollback(): Promise<void> {
+    if (this.state !== 'open') return;
+    this.state = 'done';
+    await this.client.query('ROLLBACK');
+  }
+}
+
+/** True for the unique violation a second event with a used idempotency key causes. */
+function isKeyTaken(error: unknown): boolean {
+  const e = error as { code?: string; constraint?: string; parent?: { code?: string; constraint?: string } };
+  const pgError = e?.parent ?? e;
+  return pgError?.code === '23505' && pgError.constraint === IDEMPOTENCY_KEY_CONSTRAINT;
+}
+
 /** Everything one unit of work reads and writes, in one transaction. */
 class Unit {
   private readonly items = new Map<string, WorkItem>();
@@ -211,8 +307,7 @@ class Unit {
   private readonly maxSkewMs: number;
 
   constructor(
-    private readonly sequelize: Sequelize,
-    private readonly transaction: Transaction,
+    private readonly db: UnitDb,
     private readonly opts: RecordOptions,
     private readonly precheck: boolean,
     maxSkewHours: number,
@@ -221,7 +316,7 @@ class Unit {
   }
 
   private query<T extends object>(sql: string, bind: unknown[]): Promise<T[]> {
-    return this.sequelize.query<T>(sql, { bind, transaction: this.transaction, type: QueryTypes.SELECT });
+    return this.db.query<T>(sql, bind);
   }
 
   /** Judges every event in order and writes the accepted ones; returns one outcome per event. */
@@ -239,7 +334,7 @@ class Unit {
       if (!this.precheck && !('event' in outcome)) throw new RetryUnit('refused without idempotency precheck');
       outcomes.push(outcome);
     }
-    await this.flush();
+    await this.flush(true);
     return outcomes;
   }
 
@@ -247,16 +342,13 @@ class Unit {
     const codes = [...new Set(prepared.map((p) => p.itemCode))];
     const stationCodes = [...new Set(prepared.flatMap((p) => (p.stationUpper === null ? [] : [p.stationUpper])))];
     const containerCodes = [...new Set(prepared.flatMap((p) => (p.containerCode === null ? [] : [p.containerCode])))];
-    const rows = await this.query<LockRow>(LOCK_ITEMS_SQL, [codes, stationCodes, containerCodes]);
+    const keys = this.precheck ? [...new Set(prepared.map((p) => p.input.idempotencyKey))] : null;
+    const { rows, stored } = await this.db.open([codes, stationCodes, containerCodes], keys);
     for (const row of rows) this.items.set(row.code, workItem(row));
     const first = rows[0];
     for (const station of first?.stations ?? []) this.stations.set(station.code.toUpperCase(), station);
     for (const ref of first?.refs ?? []) this.refs.set(ref.code, { ...ref, id: Number(ref.id) });
-    if (this.precheck) {
-      const keys = [...new Set(prepared.map((p) => p.input.idempotencyKey))];
-      const stored = await this.query<EventRow>(EVENTS_BY_KEYS_SQL, [keys]);
-      for (const row of stored) this.stored.set(row.idempotency_key, eventFromRow(row));
-    }
+    for (const row of stored) this.stored.set(row.idempotency_key, eventFromRow(row));
   }
 
   private replay(p: PreparedEvent, event: EventView): EventOutcome {
@@ -426,7 +518,7 @@ class Unit {
       }
     }
     // The corrected event's row id is looked up by hash when written, so it must be written first.
-    if (this.pending.some((p) => p.view.hash === corrects)) await this.flush();
+    if (this.pending.some((p) => p.view.hash === corrects)) await this.flush(false);
     return null;
   }
 
@@ -477,8 +569,15 @@ class Unit {
   }
 
   /** Writes the pending events and the changed projections in one statement. */
-  async flush(): Promise<void> {
-    if (this.pending.length === 0) return;
+  /**
+   * Writes the pending events and their items' projections. The last flush of a unit (`last`)
+   * closes it: in a transaction of its own, COMMIT goes with the write.
+   */
+  async flush(last = false): Promise<void> {
+    if (this.pending.length === 0) {
+      if (last) await this.db.close(null);
+      return;
+    }
     const events = this.pending.map(({ itemId, view }) => ({
       item_id: itemId,
       item_code: view.item,
@@ -509,11 +608,14 @@ class Unit {
         container_code: item.projection.container,
         station_code: item.projection.station,
       }));
-    const [row] = await this.query<{ inserted: { id: number; key: string }[]; updated: number }>(WRITE_EVENTS_SQL, [
-      JSON.stringify(events),
-      JSON.stringify(items),
-      events.length,
-    ]);
+    const write: WriteParams = [JSON.stringify(events), JSON.stringify(items), events.length];
+    let row: WriteRow | null;
+    try {
+      row = last ? await this.db.close(write) : ((await this.query<WriteRow>(WRITE_EVENTS_SQL, write))[0] ?? null);
+    } catch (error) {
+      if (isKeyTaken(error)) throw new RetryUnit('an idempotency key was taken by another writer');
+      throw error;
+    }
     const inserted = row?.inserted ?? [];
     if (inserted.length !== events.length) throw new RetryUnit('an idempotency key was taken by another writer');
     const ids = new Map(inserted.map((r) => [r.key, Number(r.id)]));
@@ -526,8 +628,8 @@ class Unit {
 const RETRYABLE = new Set(['40P01', '40001']);
 
 function pgCode(error: unknown): string | undefined {
-  const e = error as { parent?: { code?: string }; original?: { code?: string } };
-  return e?.parent?.code ?? e?.original?.code;
+  const e = error as { code?: string; parent?: { code?: string }; original?: { code?: string } };
+  return e?.parent?.code ?? e?.original?.code ?? e?.code;
 }
 
 /** Refusals are kept outside the ledger, on their own connection, so they survive a rollback. */
@@ -564,7 +666,7 @@ export async function runUnit(
 ): Promise<EventOutcome[]> {
   if (opts.transaction) {
     try {
-      return await new Unit(sequelize, opts.transaction, opts, true, maxSkewHours).run(events);
+      return await new Unit(new TransactionDb(sequelize, opts.transaction), opts, true, maxSkewHours).run(events);
     } catch (error) {
       if (error instanceof RetryUnit) {
         throw conflict('idempotency_race', 'An idempotency key in this unit was recorded by another request at the same moment; send it again.');
@@ -573,19 +675,24 @@ export async function runUnit(
     }
   }
   let precheck = events.length > 1;
+  const connections = sequelize.connectionManager as unknown as {
+    getConnection: (options: { type: 'write' }) => Promise<pg.ClientBase>;
+    releaseConnection: (connection: pg.ClientBase) => void;
+  };
   for (let attempt = 1; ; attempt++) {
-    const transaction = await sequelize.transaction();
+    const client = await connections.getConnection({ type: 'write' });
+    const db = new PipelinedDb(client);
     try {
-      const outcomes = await new Unit(sequelize, transaction, opts, precheck, maxSkewHours).run(events);
-      await transaction.commit();
-      return outcomes;
+      return await new Unit(db, opts, precheck, maxSkewHours).run(events);
     } catch (error) {
-      await transaction.rollback().catch(() => undefined);
+      await db.rollback().catch(() => undefined);
       if (attempt < 5 && (error instanceof RetryUnit || RETRYABLE.has(pgCode(error) ?? ''))) {
         precheck = true;
         continue;
       }
       throw error;
+    } finally {
+      connections.releaseConnection(client);
     }
   }
 }

@@ -2,6 +2,7 @@
  * The SQL of one ledger write, shared by the server and by the bench's direct-pg baseline so
  * both run the very same transaction.
  */
+import pg from 'pg';
 
 /** Columns of a custody event as the API reads them, with instants in the ledger's spelling. */
 export const EVENT_COLUMNS = `
@@ -34,11 +35,12 @@ export const LOCK_ITEMS_SQL = `
      FOR NO KEY UPDATE OF i`;
 
 /**
- * Appends the events and updates the touched items' projections in one statement. The update
- * only happens when every event was inserted: an idempotency key already taken (a retry that
- * raced its first attempt) inserts nothing and leaves the projections alone, and the caller
- * rolls back and answers with the stored event. Ids of stations, containers and corrected
- * events are looked up by code and hash. $1 events (JSON), $2 items (JSON), $3 event count.
+ * Appends the events and updates the touched items' projections in one statement. An
+ * idempotency key already taken (a retry that raced its first attempt) fails the whole
+ * statement with a unique violation on IDEMPOTENCY_KEY_CONSTRAINT, so nothing of the unit is
+ * written even when COMMIT travels with it; the caller rolls back and answers with the stored
+ * event. Ids of stations, containers and corrected events are looked up by code and hash.
+ * $1 events (JSON), $2 items (JSON), $3 event count (the update checks it as a safeguard).
  */
 export const WRITE_EVENTS_SQL = `
   WITH x AS (
@@ -60,7 +62,6 @@ export const WRITE_EVENTS_SQL = `
            x.corrects_hash,
            x.signature, x.prev_hash, x.hash
       FROM x
-    ON CONFLICT (idempotency_key) DO NOTHING
     RETURNING id, idempotency_key
   ), upd AS (
     UPDATE items i
@@ -76,6 +77,9 @@ export const WRITE_EVENTS_SQL = `
   SELECT (SELECT coalesce(json_agg(json_build_object('id', ins.id, 'key', ins.idempotency_key)), '[]') FROM ins) AS inserted,
          (SELECT count(*) FROM upd)::integer AS updated`;
 
+/** The unique constraint a second event with a used idempotency key breaks. */
+export const IDEMPOTENCY_KEY_CONSTRAINT = 'custody_events_idempotency_key_key';
+
 /** Stored events under some idempotency keys. $1 keys. */
 export const EVENTS_BY_KEYS_SQL = `SELECT ${EVENT_COLUMNS} FROM custody_events e WHERE e.idempotency_key = ANY($1::text[])`;
 
@@ -84,3 +88,42 @@ export const INSERT_REFUSALS_SQL = `
   INSERT INTO scan_refusals (actor_user_id, actor_token_id, item_code, type, idempotency_key, code, message, details)
   SELECT * FROM jsonb_to_recordset($1::jsonb) AS r(actor_user_id integer, actor_token_id integer, item_code text,
     type text, idempotency_key text, code text, message text, details jsonb)`;
+
+/** A value the ledger's statements take: text, a whole number, a list of text, or null. */
+export type SqlValue = string | number | readonly string[] | null;
+
+function literal(value: SqlValue): string {
+  if (value === null) return 'NULL';
+  if (typeof value === 'number') {
+    if (!Number.isSafeInteger(value)) throw new TypeError(`not a whole number: ${value}`);
+    return String(value);
+  }
+  if (typeof value === 'string') return pg.escapeLiteral(value);
+  return value.length === 0 ? `'{}'::text[]` : `ARRAY[${value.map((v) => pg.escapeLiteral(v)).join(', ')}]::text[]`;
+}
+
+/**
+ * A statement with its $n parameters written in as quoted literals (pg's escapeLiteral), for the
+ * simple query protocol, which takes several statements in one message but no parameters. The
+ * ledger uses it to send BEGIN with the lock and COMMIT with the write: two round trips a scan
+ * instead of four. Only the constants in this file go through it; none holds a `$` of its own.
+ */
+export function inlineParams(sql: string, params: readonly SqlValue[]): string {
+  return sql.replace(/\$(\d+)(?!\d)/g, (_, n: string) => {
+    const index = Number(n) - 1;
+    if (index < 0 || index >= params.length) throw new RangeError(`no value for $${n}`);
+    return literal(params[index] as SqlValue);
+  });
+}
+
+/** The first message of a ledger transaction: BEGIN, then the lock (and the stored keys, if asked). */
+export function openingMessage(lock: readonly [string[], string[], string[]], keys: readonly string[] | null): string {
+  const parts = ['BEGIN', inlineParams(LOCK_ITEMS_SQL, lock)];
+  if (keys !== null) parts.push(inlineParams(EVENTS_BY_KEYS_SQL, [keys]));
+  return parts.join(';\n');
+}
+
+/** The last message of a ledger transaction: the write (when there is one), then COMMIT. */
+export function closingMessage(write: readonly [string, string, number] | null): string {
+  return write === null ? 'COMMIT' : `${inlineParams(WRITE_EVENTS_SQL, write)};\nCOMMIT`;
+}
