@@ -2,7 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { halfCode } from '../../shared/domain/codes';
 import { computeEventHash, GENESIS_HASH } from '../../shared/domain/ledger/event-hash';
-import { createTestContext, type TestContext } from '../support';
+import type { TestContext } from '../support';
 import { signedInAs, type SignedInAgent } from '../factories';
 import {
   countRows,
@@ -12,8 +12,8 @@ import {
   createStation,
   createToken,
   FLAT_READINGS,
-  managerActor,
   scan,
+  startLedgerRig,
 } from '../ledger/ledger-fixtures';
 import type { LedgerActor } from '../../server/ledger/types';
 
@@ -23,10 +23,7 @@ let actor: LedgerActor;
 let sampleId: number;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  tech = await signedInAs(t, 'technician');
-  actor = await managerActor(t);
-  ({ sampleId } = await createSample(t));
+  ({ t, tech, actor, sampleId } = await startLedgerRig());
 });
 afterAll(async () => t?.close());
 

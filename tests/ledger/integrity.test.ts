@@ -4,9 +4,9 @@ import { verifyChain } from '../../shared/domain/ledger/event-hash';
 import { sealDay, sealDueDays } from '../../server/commands/seal-day';
 import { verifyLedger } from '../../server/commands/verify-ledger';
 import type { LedgerActor } from '../../server/ledger/types';
-import { createTestContext, type TestContext } from '../support';
+import type { TestContext } from '../support';
 import { signedInAs, type SignedInAgent } from '../factories';
-import { countRows, createSample, createSpecimen, managerActor, scan } from './ledger-fixtures';
+import { countRows, createSpecimen, scan, startLedgerRig } from './ledger-fixtures';
 
 let t: TestContext;
 let tech: SignedInAgent;
@@ -14,10 +14,7 @@ let actor: LedgerActor;
 let sampleId: number;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  tech = await signedInAs(t, 'technician');
-  actor = await managerActor(t);
-  ({ sampleId } = await createSample(t));
+  ({ t, tech, actor, sampleId } = await startLedgerRig());
 });
 afterAll(async () => t?.close());
 

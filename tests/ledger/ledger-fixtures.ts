@@ -10,8 +10,8 @@ import { registerItem } from '../../server/commands/record-event';
 import type { LedgerActor } from '../../server/ledger/types';
 import { hashToken } from '../../server/middleware/auth';
 import type { ContainerType } from '../../server/ledger/container-rules';
-import type { TestContext } from '../support';
-import { createUser } from '../factories';
+import { createTestContext, type TestContext } from '../support';
+import { createUser, signedInAs, type SignedInAgent } from '../factories';
 
 async function one<T extends object>(t: TestContext, sql: string, bind: unknown[] = []): Promise<T> {
   const [row] = await t.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT });
@@ -63,6 +63,23 @@ export async function createSample(t: TestContext, opts: { areaPolicy?: AreaPoli
 export async function managerActor(t: TestContext): Promise<LedgerActor> {
   const user = await createUser(t, 'manager');
   return { kind: 'user', id: user.id, role: 'manager' };
+}
+
+/** Where most ledger tests start: their own database, a signed-in technician, a manager as ledger actor, one sample. */
+export interface LedgerRig {
+  t: TestContext;
+  tech: SignedInAgent;
+  actor: LedgerActor;
+  sampleId: number;
+}
+
+/** Sets up a LedgerRig; close it with `rig.t.close()`. */
+export async function startLedgerRig(): Promise<LedgerRig> {
+  const t = await createTestContext();
+  const tech = await signedInAs(t, 'technician');
+  const actor = await managerActor(t);
+  const { sampleId } = await createSample(t);
+  return { t, tech, actor, sampleId };
 }
 
 /** Registers a specimen of a sample through the ledger (items row, registered event, specimens row). */

@@ -1,23 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { inlineParams } from '../../server/ledger/sql';
 import { verifyLedger } from '../../server/commands/verify-ledger';
-import type { LedgerActor } from '../../server/ledger/types';
-import { createTestContext, type TestContext } from '../support';
-import { signedInAs, type SignedInAgent } from '../factories';
-import { countRows, createSample, createSpecimen, managerActor, scan } from './ledger-fixtures';
+import { countRows, createSpecimen, scan, startLedgerRig, type LedgerRig } from './ledger-fixtures';
 
-let t: TestContext;
-let tech: SignedInAgent;
-let actor: LedgerActor;
-let sampleId: number;
-
+let rig: LedgerRig;
 beforeAll(async () => {
-  t = await createTestContext();
-  tech = await signedInAs(t, 'technician');
-  actor = await managerActor(t);
-  ({ sampleId } = await createSample(t));
+  rig = await startLedgerRig();
 });
-afterAll(async () => t?.close());
+afterAll(async () => rig?.t.close());
 
 // Text that would break out of a quoted literal, or look like a parameter or a second statement.
 const AWKWARD = `O'Brien's "bag" \\ back\\slash $1 $3 '); COMMIT; DROP TABLE items; -- Ω ✓ 🧪`;
@@ -34,7 +24,7 @@ describe('inlineParams', () => {
       ...Array.from({ length: 4 }, () => 'unused'),
       'tenth',
     ]);
-    const [rows] = await t.sequelize.query(sql);
+    const [rows] = await rig.t.sequelize.query(sql);
     expect(rows).toEqual([{ a: AWKWARD, b: 42, c: [AWKWARD, 'plain'], d: [], e: null, f: 'tenth' }]);
   });
 
@@ -46,33 +36,33 @@ describe('inlineParams', () => {
 
 describe('a scan in its own transaction (BEGIN with the lock, COMMIT with the write)', () => {
   it('keeps an awkward payload exactly, and the chain verifies', async () => {
-    const code = await createSpecimen(t, actor, sampleId);
-    const res = await tech.post('/api/events', scan('label_printed', code, { payload: { note: AWKWARD } })).expect(201);
-    const [rows] = await t.sequelize.query('SELECT payload FROM custody_events WHERE id = $1', { bind: [res.body.event.id] });
+    const code = await createSpecimen(rig.t, rig.actor, rig.sampleId);
+    const res = await rig.tech.post('/api/events', scan('label_printed', code, { payload: { note: AWKWARD } })).expect(201);
+    const [rows] = await rig.t.sequelize.query('SELECT payload FROM custody_events WHERE id = $1', { bind: [res.body.event.id] });
     expect((rows as { payload: { note: string } }[])[0]?.payload.note).toBe(AWKWARD);
-    expect((await verifyLedger(t.sequelize)).ok).toBe(true);
+    expect((await verifyLedger(rig.t.sequelize)).ok).toBe(true);
   });
 
   it('writes nothing of a batch whose key was taken meanwhile, and answers the retry from the ledger', async () => {
-    const codes = [await createSpecimen(t, actor, sampleId), await createSpecimen(t, actor, sampleId)];
+    const codes = [await createSpecimen(rig.t, rig.actor, rig.sampleId), await createSpecimen(rig.t, rig.actor, rig.sampleId)];
     const first = scan('label_printed', codes[0]!);
-    await tech.post('/api/events', first).expect(201);
-    const before = await countRows(t, 'custody_events');
+    await rig.tech.post('/api/events', first).expect(201);
+    const before = await countRows(rig.t, 'custody_events');
     // The same key again inside a batch, beside a new event: judged with the keys looked up, the
     // repeat is a replay and only the new event is written.
-    const res = await tech.post('/api/events/batch', { events: [first, scan('label_printed', codes[1]!)] }).expect(200);
+    const res = await rig.tech.post('/api/events/batch', { events: [first, scan('label_printed', codes[1]!)] }).expect(200);
     expect(res.body).toMatchObject({ recorded: 1, replayed: 1, refused: 0 });
-    expect(await countRows(t, 'custody_events')).toBe(before + 1);
+    expect(await countRows(rig.t, 'custody_events')).toBe(before + 1);
   });
 
   it('leaves no transaction open on a pooled connection after a refusal or a failure', async () => {
-    const code = await createSpecimen(t, actor, sampleId);
-    await tech.post('/api/events', scan('binned', code)).expect(409);
-    await tech.post('/api/events', scan('label_printed', 'S26-99999-Z')).expect((r) => expect([404, 422]).toContain(r.status));
-    const [rows] = await t.sequelize.query(
+    const code = await createSpecimen(rig.t, rig.actor, rig.sampleId);
+    await rig.tech.post('/api/events', scan('binned', code)).expect(409);
+    await rig.tech.post('/api/events', scan('label_printed', 'S26-99999-Z')).expect((r) => expect([404, 422]).toContain(r.status));
+    const [rows] = await rig.t.sequelize.query(
       `SELECT count(*)::integer AS n FROM pg_stat_activity WHERE datname = current_database() AND state LIKE 'idle in transaction%'`,
     );
     expect((rows as { n: number }[])[0]?.n).toBe(0);
-    await tech.post('/api/events', scan('label_printed', code)).expect(201);
+    await rig.tech.post('/api/events', scan('label_printed', code)).expect(201);
   });
 });
