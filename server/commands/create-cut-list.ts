@@ -38,6 +38,8 @@ export interface SpecimenRun {
   count: number;
   /** The person registering them; each specimen's `registered` event names them. */
   actor: LedgerActor;
+  /** When they were registered, as the device saw it; the server's now when left out. */
+  occurredAt?: string;
 }
 
 /**
@@ -105,6 +107,7 @@ export async function registerSpecimens(ctx: AppContext, run: SpecimenRun, trans
       {
         kind: 'specimen',
         code,
+        occurredAt: run.occurredAt,
         payload: { sample: run.sample.code, heat: run.sample.heatNumber, order: run.sample.orderNumber, geometry: geometry.key, testStandard: run.testStandard },
       },
       { actor: run.actor, transaction },
@@ -153,8 +156,16 @@ async function loadOrderPlan(ctx: AppContext, orderId: number, transaction: Tran
  * @param lines - The plan.
  * @param actor - Who registers the specimens.
  * @param transaction - The caller's transaction.
+ * @param opts - `occurredAt`: the registration time the device reported (the server's now when left out).
  */
-export async function writeCutList(ctx: AppContext, orderId: number, lines: CutListLine[], actor: LedgerActor, transaction: Transaction): Promise<CutListResult> {
+export async function writeCutList(
+  ctx: AppContext,
+  orderId: number,
+  lines: CutListLine[],
+  actor: LedgerActor,
+  transaction: Transaction,
+  opts: { occurredAt?: string } = {},
+): Promise<CutListResult> {
   const order = await loadOrderPlan(ctx, orderId, transaction);
   const result: CutListResult = { orderId, samples: [], specimens: [] };
   for (const line of lines) {
@@ -175,7 +186,11 @@ export async function writeCutList(ctx: AppContext, orderId: number, lines: CutL
       sample = await insertSample(ctx, { ...line.newSample, orderId }, transaction);
       result.samples.push({ ...pickSample(sample), created: true });
     }
-    const specimens = await registerSpecimens(ctx, { sample, geometryKey: line.geometryKey, testStandard: order.testStandard, count: line.count, actor }, transaction);
+    const specimens = await registerSpecimens(
+      ctx,
+      { sample, geometryKey: line.geometryKey, testStandard: order.testStandard, count: line.count, actor, occurredAt: opts.occurredAt },
+      transaction,
+    );
     result.specimens.push(...specimens.map((s) => ({ ...s, sampleId: sample.id, heatNumber: sample.heatNumber })));
   }
   return result;
@@ -194,8 +209,15 @@ function pickSample(s: SampleRef) {
  * @param orderId - The order.
  * @param input - Specimens per heat, the new samples' position, orientation and thickness, samples to reuse.
  * @param actor - Who registers the specimens.
+ * @param opts - `occurredAt`: the registration time the device reported (the server's now when left out).
  */
-export async function createCutList(ctx: AppContext, orderId: number, input: CutListCreate, actor: LedgerActor): Promise<CutListResult> {
+export async function createCutList(
+  ctx: AppContext,
+  orderId: number,
+  input: CutListCreate,
+  actor: LedgerActor,
+  opts: { occurredAt?: string } = {},
+): Promise<CutListResult> {
   return ctx.sequelize.transaction(async (transaction) => {
     const order = await loadOrderPlan(ctx, orderId, transaction);
     const [heatRows] = await ctx.sequelize.query(
@@ -228,6 +250,6 @@ export async function createCutList(ctx: AppContext, orderId: number, input: Cut
         geometryKey: order.geometryKey,
       }];
     });
-    return writeCutList(ctx, orderId, lines, actor, transaction);
+    return writeCutList(ctx, orderId, lines, actor, transaction, opts);
   });
 }

@@ -80,6 +80,10 @@ export async function seedDemoUsers(sequelize: Sequelize): Promise<string | null
 
 const DEMO_CUT = { position: 'head end, 50 mm from the edge', orientation: 'longitudinal' };
 
+/** The demo's story starts this long before it is loaded: specimens registered, then hand-offs. */
+const DEMO_STORY_HOURS = 7;
+const storyStart = () => Date.now() - DEMO_STORY_HOURS * 3600_000;
+
 /** Makes the cut lists of the demo orders in test (LM-26-0101 and LM-26-0103) that have none yet. */
 export async function seedDemoSpecimens(ctx: AppContext, userId: number): Promise<string> {
   const [rows] = await ctx.sequelize.query(
@@ -90,7 +94,7 @@ export async function seedDemoSpecimens(ctx: AppContext, userId: number): Promis
   if (!user) throw new Error(`No user ${userId} to register the demo specimens.`);
   let made = 0;
   for (const { id } of rows as { id: number }[]) {
-    const result = await createCutList(ctx, id, DEMO_CUT, { kind: 'user', id: user.id, role: user.role });
+    const result = await createCutList(ctx, id, DEMO_CUT, { kind: 'user', id: user.id, role: user.role }, { occurredAt: new Date(storyStart()).toISOString() });
     made += result.specimens.length;
   }
   return `Demo specimens registered: ${made}.`;
@@ -126,8 +130,8 @@ export async function seedDemoActivity(ctx: AppContext): Promise<string | null> 
     return (rows as { code: string }[]).map((r) => r.code);
   };
 
-  // Times run forward from a few hours ago, a minute and a half per hand-off.
-  let clock = Date.now() - 6 * 3600_000;
+  // Times run forward from an hour after the specimens were registered, a minute and a half per hand-off.
+  let clock = storyStart() + 3600_000;
   let n = 0;
   const step = async (role: Role, type: string, itemCode: string, more: { station?: string; container?: string; payload?: Record<string, unknown> } = {}) => {
     clock += 90_000;
