@@ -1,22 +1,12 @@
 import type { ColumnDef } from '@tanstack/react-table';
-import { Link } from 'react-router-dom';
 import { ORDER_STATUS_LABELS, type OrderView } from '../../../../shared/schemas/orders';
-import { Mono } from '../../../components/ui/detail-list';
+import { linkColumn } from '../../../components/ui/link-column';
 import { paths } from '../../../config/paths';
 import { OrderStatusTag } from './order-status-tag';
 
 /** Columns of the order list; sortable ones carry the server's sort key as id. */
 export const orderColumns: ColumnDef<OrderView>[] = [
-  {
-    id: 'number',
-    header: 'Order',
-    enableSorting: true,
-    cell: ({ row }) => (
-      <Link to={paths.order.href(row.original.id)} className="font-semibold text-temper-700 underline-offset-2 hover:underline">
-        <Mono>{row.original.number}</Mono>
-      </Link>
-    ),
-  },
+  linkColumn<OrderView>({ id: 'number', header: 'Order', sortable: true, primary: true, href: (r) => paths.order.href(r.id), text: (r) => r.number }),
   { id: 'customer', header: 'Customer', enableSorting: true, cell: ({ row }) => row.original.customerName },
   { id: 'materialSpec', header: 'Specification', cell: ({ row }) => row.original.materialSpec },
   { id: 'heats', header: 'Heats', cell: ({ row }) => row.original.heatCount },

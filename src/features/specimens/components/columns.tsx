@@ -1,53 +1,17 @@
 import type { ColumnDef } from '@tanstack/react-table';
-import { Link } from 'react-router-dom';
 import { PIECE_STATES } from '../../../../shared/domain/ledger/state-machine';
 import type { SpecimenView } from '../../../../shared/schemas/specimens';
-import { Mono } from '../../../components/ui/detail-list';
 import { StateBadge, stateLabel } from '../../../components/ui/state-badge';
+import { linkColumn } from '../../../components/ui/link-column';
 import { paths } from '../../../config/paths';
 
 /** Columns of the specimen list; sortable ones carry the server's sort key as id. */
 export const specimenColumns: ColumnDef<SpecimenView>[] = [
-  {
-    id: 'code',
-    header: 'Specimen',
-    enableSorting: true,
-    cell: ({ row }) => (
-      <Link to={paths.specimen.href(row.original.code)} className="font-semibold text-temper-700 underline-offset-2 hover:underline">
-        <Mono>{row.original.code}</Mono>
-      </Link>
-    ),
-  },
+  linkColumn<SpecimenView>({ id: 'code', header: 'Specimen', sortable: true, primary: true, href: (r) => paths.specimen.href(r.code), text: (r) => r.code }),
   { id: 'state', header: 'State', enableSorting: true, cell: ({ row }) => <StateBadge state={row.original.state} /> },
-  {
-    id: 'heat',
-    header: 'Heat',
-    enableSorting: true,
-    cell: ({ row }) => (
-      <Link to={paths.heat.href(row.original.heatId)} className="hover:underline">
-        <Mono>{row.original.heatNumber}</Mono>
-      </Link>
-    ),
-  },
-  {
-    id: 'order',
-    header: 'Order',
-    enableSorting: true,
-    cell: ({ row }) => (
-      <Link to={paths.order.href(row.original.orderId)} className="hover:underline">
-        <Mono>{row.original.orderNumber}</Mono>
-      </Link>
-    ),
-  },
-  {
-    id: 'sample',
-    header: 'Sample',
-    cell: ({ row }) => (
-      <Link to={paths.sample.href(row.original.sampleId)} className="hover:underline">
-        <Mono>{row.original.sampleCode}</Mono>
-      </Link>
-    ),
-  },
+  linkColumn<SpecimenView>({ id: 'heat', header: 'Heat', sortable: true, href: (r) => paths.heat.href(r.heatId), text: (r) => r.heatNumber }),
+  linkColumn<SpecimenView>({ id: 'order', header: 'Order', sortable: true, href: (r) => paths.order.href(r.orderId), text: (r) => r.orderNumber }),
+  linkColumn<SpecimenView>({ id: 'sample', header: 'Sample', href: (r) => paths.sample.href(r.sampleId), text: (r) => r.sampleCode }),
   { id: 'geometry', header: 'Geometry', cell: ({ row }) => <span className="text-caption">{row.original.shape} · {row.original.geometryKey}</span> },
 ];
 
