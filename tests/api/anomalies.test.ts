@@ -3,10 +3,10 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { recordEvent } from '../../server/commands/record-event';
 import type { AnomalyPage, TraceView } from '../../shared/schemas/trace';
-import { signedInAs, type SignedInAgent } from '../factories';
-import { createTestContext, type TestContext } from '../support';
+import type { SignedInAgent } from '../factories';
+import type { TestContext } from '../support';
 import { countRows, createSample, createSpecimen, FLAT_READINGS, scan } from '../ledger/ledger-fixtures';
-import { buildLife, type Life } from './trace-fixtures';
+import { startTraceRig, type Life } from './trace-fixtures';
 
 let t: TestContext;
 let auditor: SignedInAgent;
@@ -15,9 +15,7 @@ let late: string;
 let plastic: string;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  auditor = await signedInAs(t, 'auditor');
-  life = await buildLife(t);
+  ({ t, auditor, life } = await startTraceRig());
   const hour = 3_600_000;
   const at = (hoursAgo: number) => new Date(Date.now() - hoursAgo * hour).toISOString();
   const rec = (type: string, itemCode: string, occurredAt: string, extra: Record<string, unknown> = {}) =>

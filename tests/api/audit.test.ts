@@ -9,8 +9,8 @@ import { sealDay } from '../../server/commands/seal-day';
 import { verifyAuditJsonl } from '../../shared/domain/ledger/audit-jsonl';
 import { canonicalJson } from '../../shared/domain/ledger/canonical';
 import { createInstrumentToken, signedInAs, type SignedInAgent } from '../factories';
-import { createTestContext, type TestContext } from '../support';
-import { buildLife, type Life } from './trace-fixtures';
+import type { TestContext } from '../support';
+import { startTraceRig, type Life } from './trace-fixtures';
 // The standalone verifier is plain JavaScript with no dependencies; the tests import its parts too.
 import { canonicalize, verifyPack } from '../../tools/verify-audit-pack.mjs';
 
@@ -23,9 +23,7 @@ let life: Life;
 let dir: string;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  auditor = await signedInAs(t, 'auditor');
-  life = await buildLife(t);
+  ({ t, auditor, life } = await startTraceRig());
   // Seal today as if the day were over, so the pack carries a seal over these chains.
   const today = new Date().toISOString().slice(0, 10);
   const sealed = await sealDay(t.sequelize, today, new Date(Date.now() + 2 * 86_400_000));

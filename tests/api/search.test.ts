@@ -1,17 +1,15 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SearchResult } from '../../shared/schemas/trace';
-import { signedInAs, type SignedInAgent } from '../factories';
-import { createTestContext, type TestContext } from '../support';
-import { buildLife, type Life } from './trace-fixtures';
+import type { SignedInAgent } from '../factories';
+import type { TestContext } from '../support';
+import { startTraceRig, type Life } from './trace-fixtures';
 
 let t: TestContext;
 let auditor: SignedInAgent;
 let life: Life;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  auditor = await signedInAs(t, 'auditor');
-  life = await buildLife(t);
+  ({ t, auditor, life } = await startTraceRig());
 });
 afterAll(async () => t?.close());
 

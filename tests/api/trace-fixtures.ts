@@ -7,7 +7,8 @@ import { randomUUID } from 'node:crypto';
 import { QueryTypes } from 'sequelize';
 import { recordEvent } from '../../server/commands/record-event';
 import type { LedgerActor } from '../../server/ledger/types';
-import type { TestContext } from '../support';
+import { createTestContext, type TestContext } from '../support';
+import { signedInAs, type SignedInAgent } from '../factories';
 import { createContainer, createSample, createSpecimen, createStation, FLAT_READINGS, managerActor } from '../ledger/ledger-fixtures';
 
 /** What buildLife made. */
@@ -79,4 +80,12 @@ export async function buildLife(t: TestContext, opts: { tag?: string } = {}): Pr
     shelf,
     stations,
   };
+}
+
+/** Where the trace tests start: their own database, a signed-in auditor, and one specimen's whole life. */
+export async function startTraceRig(): Promise<{ t: TestContext; auditor: SignedInAgent; life: Life }> {
+  const t = await createTestContext();
+  const auditor = await signedInAs(t, 'auditor');
+  const life = await buildLife(t);
+  return { t, auditor, life };
 }

@@ -12,10 +12,10 @@ import { specimenCode } from '../../shared/domain/codes';
 import { computeEventHash, GENESIS_HASH, type HashedEvent } from '../../shared/domain/ledger/event-hash';
 import { labAnomalies } from '../../server/commands/trace-anomalies';
 import { AnomalyListQuerySchema, type AnomalyPage, type TraceView } from '../../shared/schemas/trace';
-import { signedInAs, type SignedInAgent } from '../factories';
-import { createTestContext, type TestContext } from '../support';
+import type { SignedInAgent } from '../factories';
+import type { TestContext } from '../support';
 import { createSample } from '../ledger/ledger-fixtures';
-import { buildLife, type Life } from './trace-fixtures';
+import { startTraceRig, type Life } from './trace-fixtures';
 
 /** Events hashed in the test, written straight into the ledger as the owner (much faster than the API for 100,000). */
 const INSERT_HASHED_EVENTS_SQL = `INSERT INTO custody_events (item_id, item_code, seq, type, actor_user_id, station_code, container_code, occurred_at,
@@ -29,9 +29,7 @@ let auditor: SignedInAgent;
 let life: Life;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  auditor = await signedInAs(t, 'auditor');
-  life = await buildLife(t);
+  ({ t, auditor, life } = await startTraceRig());
 });
 afterAll(async () => t?.close());
 

@@ -2,19 +2,17 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { recordEvent } from '../../server/commands/record-event';
 import type { TraceView } from '../../shared/schemas/trace';
-import { signedInAs, type SignedInAgent } from '../factories';
-import { createTestContext, type TestContext } from '../support';
+import type { SignedInAgent } from '../factories';
+import type { TestContext } from '../support';
 import { createSample, createSpecimen } from '../ledger/ledger-fixtures';
-import { buildLife, type Life } from './trace-fixtures';
+import { startTraceRig, type Life } from './trace-fixtures';
 
 let t: TestContext;
 let auditor: SignedInAgent;
 let life: Life;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  auditor = await signedInAs(t, 'auditor');
-  life = await buildLife(t);
+  ({ t, auditor, life } = await startTraceRig());
 });
 afterAll(async () => t?.close());
 

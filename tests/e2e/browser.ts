@@ -2,6 +2,7 @@ import { mkdirSync } from 'node:fs';
 import type { Server } from 'node:http';
 import path from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { expect } from 'vitest';
 import { launchChromium } from '../../scripts/lib/chromium';
 import { createApp } from '../../server/app';
 import { createTestContext, type TestContext } from '../support';
@@ -11,6 +12,9 @@ export const VIEWPORTS = {
   phone: { width: 390, height: 844 },
   desktop: { width: 1280, height: 800 },
 } as const;
+
+/** Polls with room for a busy machine (argon2 checks, a shared database): vitest's default is one second. */
+export const patientPoll = <T>(fn: () => T | Promise<T>) => expect.poll(fn, { timeout: 20_000, interval: 100 });
 
 export const SCREENSHOT_DIR = path.resolve('.test-artifacts', 'screenshots');
 

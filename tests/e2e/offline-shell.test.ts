@@ -12,10 +12,7 @@ import type { LedgerActor } from '../../server/ledger/types';
 import { openScanner, wedgeScan } from '../../scripts/bench-scan';
 import { createUser, TEST_PASSWORD } from '../factories';
 import { createSample, createSpecimen, managerActor } from '../ledger/ledger-fixtures';
-import { startBrowserRig, VIEWPORTS, type BrowserRig } from './browser';
-
-/** Polls with room for a busy machine (argon2 checks, a shared database): vitest's default is one second. */
-const poll = <T>(fn: () => T | Promise<T>) => expect.poll(fn, { timeout: 20_000, interval: 100 });
+import { patientPoll as poll, startBrowserRig, VIEWPORTS, type BrowserRig } from './browser';
 
 let rig: BrowserRig;
 let actor: LedgerActor;

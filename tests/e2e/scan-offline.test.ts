@@ -1,13 +1,12 @@
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { LedgerActor } from '../../server/ledger/types';
-import { openScanner, startScanBrowser, wedgeScan, type ScanBrowser } from '../../scripts/bench-scan';
+import { openScanner, wedgeScan, type ScanBrowser } from '../../scripts/bench-scan';
 import { createUser, TEST_PASSWORD } from '../factories';
-import { createSample, createSpecimen, managerActor } from '../ledger/ledger-fixtures';
-import { createTestContext, type TestContext } from '../support';
-
-/** Polls with room for a busy machine (argon2 checks, a shared database): vitest's default is one second. */
-const poll = <T>(fn: () => T | Promise<T>) => expect.poll(fn, { timeout: 20_000, interval: 100 });
+import { patientPoll as poll } from './browser';
+import { createSpecimen } from '../ledger/ledger-fixtures';
+import type { TestContext } from '../support';
+import { closeScannerRig, startScannerRig } from './scan-rig';
 
 let t: TestContext;
 let rig: ScanBrowser;
@@ -15,15 +14,9 @@ let actor: LedgerActor;
 let sampleId: number;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  rig = await startScanBrowser(t.ctx);
-  actor = await managerActor(t);
-  ({ sampleId } = await createSample(t));
+  ({ t, rig, actor, sampleId } = await startScannerRig());
 });
-afterAll(async () => {
-  await rig?.close();
-  await t?.close();
-});
+afterAll(() => closeScannerRig({ t, rig }));
 
 /** Each code's cut events and their idempotency keys, straight from the ledger. */
 async function cutsOf(codes: string[]): Promise<{ item_code: string; idempotency_key: string }[]> {

@@ -4,14 +4,13 @@ import type { Page } from 'playwright-core';
 import { badgeCode, halfCode, specimenCode } from '../../shared/domain/codes';
 import { hashPassword } from '../../server/auth/passwords';
 import type { LedgerActor } from '../../server/ledger/types';
-import { openScanner, startScanBrowser, wedgeScan, type ScanBrowser } from '../../scripts/bench-scan';
+import { openScanner, wedgeScan, type ScanBrowser } from '../../scripts/bench-scan';
 import { createUser, TEST_PASSWORD } from '../factories';
-import { createContainer, createSample, createSpecimen, createStation, FLAT_READINGS, managerActor, scan } from '../ledger/ledger-fixtures';
+import { patientPoll as poll } from './browser';
+import { createContainer, createSpecimen, createStation, FLAT_READINGS, scan } from '../ledger/ledger-fixtures';
 import { recordEvent } from '../../server/commands/record-event';
-import { createTestContext, type TestContext } from '../support';
-
-/** Polls with room for a busy machine (argon2 checks, a shared database): vitest's default is one second. */
-const poll = <T>(fn: () => T | Promise<T>) => expect.poll(fn, { timeout: 20_000, interval: 100 });
+import type { TestContext } from '../support';
+import { closeScannerRig, startScannerRig } from './scan-rig';
 
 let t: TestContext;
 let rig: ScanBrowser;
@@ -19,15 +18,9 @@ let actor: LedgerActor;
 let sampleId: number;
 
 beforeAll(async () => {
-  t = await createTestContext();
-  rig = await startScanBrowser(t.ctx);
-  actor = await managerActor(t);
-  ({ sampleId } = await createSample(t));
+  ({ t, rig, actor, sampleId } = await startScannerRig());
 });
-afterAll(async () => {
-  await rig?.close();
-  await t?.close();
-});
+afterAll(() => closeScannerRig({ t, rig }));
 
 /** A registered specimen, moved on through the given events first. */
 async function specimenAt(...steps: [string, Record<string, unknown>?][]): Promise<string> {
