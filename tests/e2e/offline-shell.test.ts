@@ -81,7 +81,7 @@ describe('the app shell offline', { timeout: 180_000 }, () => {
     expect(await page.getByTestId('operator').textContent()).toContain(user.name);
     await page.getByRole('button', { name: /^Cut\b/ }).click();
     expect(await wedgeScan(page, code)).toMatchObject({ outcome: 'kept' });
-    expect(await page.getByTestId('pending-count').textContent()).toBe('1');
+    await poll(() => page.getByTestId('pending-count').textContent()).toBe('1');
     await rig.screenshot(page, 'offline-shell-scan-kept-phone');
     expect(await cutsOf(code)).toEqual([]);
 
@@ -94,7 +94,7 @@ describe('the app shell offline', { timeout: 180_000 }, () => {
     await page.getByTestId('scan-screen').waitFor();
     await poll(() => page.getByTestId('connection').getAttribute('data-online')).toBe('true');
     await page.waitForTimeout(500);
-    expect(await page.getByTestId('pending-count').textContent()).toBe('0');
+    await poll(() => page.getByTestId('pending-count').textContent()).toBe('0');
     expect((await cutsOf(code)).length).toBe(1);
 
     expect(fromWorker).toEqual([]);

@@ -44,7 +44,7 @@ describe('scanning offline', { timeout: 180_000 }, () => {
       expect(r.outcome).toBe('kept');
       expect(await page.getByTestId('scan-result').locator('svg[data-shape]').first().getAttribute('data-shape')).toBe('hourglass');
     }
-    expect(await page.getByTestId('pending-count').textContent()).toBe('3');
+    await poll(() => page.getByTestId('pending-count').textContent()).toBe('3');
     await rig.screenshot(page, 'scan-offline-kept-phone');
 
     // Closing the tab keeps them. The network is back but the ledger is not reachable (its
@@ -62,7 +62,7 @@ describe('scanning offline', { timeout: 180_000 }, () => {
     expect(await wedgeScan(second, refusedCode)).toMatchObject({ outcome: 'kept' });
     await second.waitForTimeout(1100);
     expect(await wedgeScan(second, refusedCode)).toMatchObject({ outcome: 'kept' });
-    expect(await second.getByTestId('pending-count').textContent()).toBe('7');
+    await poll(() => second.getByTestId('pending-count').textContent()).toBe('7');
     expect(await cutsOf([...codes, refusedCode])).toEqual([]);
 
     // The next sync's answer is lost on the way back (the server did record it): the scans stay
@@ -81,7 +81,7 @@ describe('scanning offline', { timeout: 180_000 }, () => {
     await second.getByRole('button', { name: 'Sync now' }).click();
     await poll(() => second.getByTestId('sync-report').textContent().catch(() => '')).toContain('7 still waiting');
     expect(dropped).toBe(1);
-    expect(await second.getByTestId('pending-count').textContent()).toBe('7');
+    await poll(() => second.getByTestId('pending-count').textContent()).toBe('7');
     await second.getByRole('button', { name: 'Sync now' }).click();
     await poll(() => second.getByTestId('pending-count').textContent()).toBe('0');
     const report = await second.getByTestId('sync-report').textContent();
